@@ -1,0 +1,73 @@
+"""The heatlift web application: Flask app factory, one blueprint per domain.
+
+No physics lives here: routes load a request schema, call the engine and write the result.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from flask import Flask
+from flask_smorest import Api
+
+import heatlift
+from api import context, problems
+from heatlift.warmup import warm_up_in_background
+from schemas.common import ProblemSchema
+from schemas.fields import Quantity
+
+DEFAULTS: dict[str, Any] = {
+    "API_TITLE": "heatlift",
+    "API_VERSION": "v1",
+    "OPENAPI_VERSION": "3.1.0",
+    "OPENAPI_URL_PREFIX": "/",
+    "OPENAPI_JSON_PATH": "openapi.json",
+    "MAX_CONTENT_LENGTH": 10 * 1024 * 1024,
+    "HEATLIFT_MAX_TABLE_POINTS": 500,
+    "API_SPEC_OPTIONS": {
+        "info": {
+            "description": "Refrigeration and heat-pump calculations, each quantity with its unit.",
+            "version": heatlift.__version__,
+        },
+    },
+}
+
+
+class HeatliftApi(Api):
+    ERROR_SCHEMA = ProblemSchema
+    DEFAULT_ERROR_RESPONSE_NAME = "DEFAULT_ERROR"
+
+
+def _quantity_property(self: Any, field: Any, **_: Any) -> dict[str, Any]:
+    if not isinstance(field, Quantity):
+        return {}
+    return {
+        "oneOf": [
+            {"type": "number"},
+            {"type": "string", "examples": ["45 psig", "7 degC"]},
+            {
+                "type": "object",
+                "properties": {"value": {"type": "number"}, "unit": {"type": "string"}},
+                "required": ["value"],
+            },
+        ],
+        "x-quantity-kind": field.kind,
+    }
+
+
+def create_app(config: dict[str, Any] | None = None) -> Flask:
+    """Build the application; ``config`` overrides :data:`DEFAULTS`."""
+    from api.routes import ROUTES
+
+    app = Flask("heatlift", static_folder=None)
+    app.config.update(DEFAULTS)
+    app.config.update(config or {})
+    context.register(app)
+    api = HeatliftApi(app)
+    api.ma_plugin.converter.add_attribute_function(_quantity_property)  # type: ignore[union-attr]
+    for blueprint in ROUTES:
+        api.register_blueprint(blueprint)
+    problems.register(app)
+    if app.config.get("HEATLIFT_WARM_UP", True):
+        warm_up_in_background()
+    return app

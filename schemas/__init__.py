@@ -1,0 +1,1 @@
+"""marshmallow schemas: the HTTP contract of heatlift, one module per domain."""
