@@ -24,6 +24,7 @@ DEFAULTS: dict[str, Any] = {
     "OPENAPI_JSON_PATH": "openapi.json",
     "MAX_CONTENT_LENGTH": 10 * 1024 * 1024,
     "HEATLIFT_MAX_TABLE_POINTS": 500,
+    "HEATLIFT_MAX_SWEEP_POINTS": 200,
     "API_SPEC_OPTIONS": {
         "info": {
             "description": "Refrigeration and heat-pump calculations, each quantity with its unit.",

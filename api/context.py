@@ -12,10 +12,10 @@ import time
 import uuid
 from typing import Any
 
-from flask import Flask, Response, g, request
+from flask import Flask, Response, current_app, g, request
 from flask.json.provider import DefaultJSONProvider
 from marshmallow import ValidationError
-from werkzeug.exceptions import BadRequest, UnprocessableEntity
+from werkzeug.exceptions import BadRequest, UnprocessableEntity, UnsupportedMediaType
 
 from heatlift.errors import Remark
 from schemas.fields import Quantity, _current
@@ -57,6 +57,29 @@ def _body() -> dict[str, Any]:
     return data if isinstance(data, dict) else {}
 
 
+def query_overrides(text: str) -> dict[str, str] | None:
+    """``unit_overrides`` in a query string: ``pressure:bar,power:TR`` (or a JSON object).
+
+    None when the text is neither, so that the caller reports it.
+    """
+    import json
+
+    text = text.strip()
+    if text.startswith("{"):
+        try:
+            parsed = json.loads(text, parse_constant=_reject_constant)
+        except ValueError:
+            return None
+        return parsed if isinstance(parsed, dict) else None
+    pairs: dict[str, str] = {}
+    for item in filter(None, (part.strip() for part in text.split(","))):
+        kind, sep, unit = item.partition(":")
+        if not sep or not kind.strip() or not unit.strip():
+            return None
+        pairs[kind.strip()] = unit.strip()
+    return pairs
+
+
 def unit_context_from_request() -> UnitContext:
     """Read ``units``, ``unit_overrides`` and ``atmospheric_pressure`` from query and body."""
     body = _body() if request.method in ("POST", "PUT", "PATCH") else {}
@@ -66,10 +89,15 @@ def unit_context_from_request() -> UnitContext:
         errors["units"] = ['units must be "SI" or "IP"']
         system = "SI"
     system = system.upper()
-    overrides_raw = body.get("unit_overrides", {})
+    overrides_raw: Any = body.get("unit_overrides", {})
+    if "unit_overrides" not in body and "unit_overrides" in request.args:
+        overrides_raw = query_overrides(request.args["unit_overrides"])
     overrides: dict[str, str] = {}
     if not isinstance(overrides_raw, dict):
-        errors["unit_overrides"] = ['an object of kind -> unit, e.g. {"pressure": "bar"}']
+        errors["unit_overrides"] = [
+            'an object of kind -> unit, e.g. {"pressure": "bar"} (in a query string: '
+            "unit_overrides=pressure:bar,power:TR)"
+        ]
     else:
         for kind, unit in overrides_raw.items():
             try:
@@ -108,11 +136,37 @@ def warn(remark: Remark) -> None:
     g.setdefault("remarks", []).append(remark)
 
 
+JSON_ONLY = ("application/json",)
+
+
+def _check_content_type() -> None:
+    """415 for a request body in a media type the endpoint does not read.
+
+    An endpoint reads JSON unless its MethodView lists more in ``content_types`` (e.g.
+    ``("application/json", "text/csv")``); ``application/<x>+json`` counts as JSON.
+    """
+    if request.method not in ("POST", "PUT", "PATCH") or request.endpoint is None:
+        return
+    if not request.content_length and not request.get_data(cache=True):
+        return
+    view = current_app.view_functions.get(request.endpoint)
+    accepted = tuple(getattr(getattr(view, "view_class", None), "content_types", JSON_ONLY))
+    mimetype = request.mimetype
+    if mimetype in accepted or ("application/json" in accepted and request.is_json):
+        return
+    sent = f"'{mimetype}'" if mimetype else "no Content-Type"
+    raise UnsupportedMediaType(
+        f"The body was sent with {sent}; this endpoint reads {' or '.join(accepted)}: send "
+        "the body in that format with a matching Content-Type header."
+    )
+
+
 def _before() -> None:
     g.started = time.perf_counter()
     incoming = request.headers.get("X-Request-ID", "")
     g.request_id = incoming if _REQUEST_ID.match(incoming) else uuid.uuid4().hex
     g.remarks = []
+    _check_content_type()
     g.unit_token = _current.set(unit_context_from_request())
 
 

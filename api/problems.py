@@ -10,6 +10,7 @@ import logging
 from typing import Any
 
 from flask import Flask, Response, json
+from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
 from heatlift.errors import HeatliftError, SIValue
@@ -107,7 +108,13 @@ def _unexpected(error: Exception) -> Response:
     )
 
 
+def _validation(error: ValidationError) -> Response:
+    errors = _flatten(error.messages)
+    return problem(422, "Invalid request", _validation_detail(errors), errors, "validation")
+
+
 def register(app: Flask) -> None:
+    app.register_error_handler(ValidationError, _validation)
     app.register_error_handler(HeatliftError, from_engine)
     app.register_error_handler(HTTPException, _http)
     app.register_error_handler(Exception, _unexpected)

@@ -27,7 +27,7 @@ class RefrigerantFacts:
     gwp100: dict[str, float | None]
     critical_temperature: float
     critical_pressure: float
-    normal_boiling_point: float
+    normal_boiling_point: float | None  # None: no liquid at 101.325 kPa (R744)
     lower_flammability_limit: float | None
     practical_limit: float | None
     sources: dict[str, str]

@@ -58,13 +58,14 @@ class UnknownRefrigerant(HeatliftError):
         self.designation = designation
         self.suggestions = suggestions
         hint = f" Close matches: {', '.join(suggestions)}." if suggestions else ""
+        # the designation is caller text: escape its braces before it enters the format()
+        # template (``R{x}`` must not be read as a placeholder)
+        quoted = designation.replace("{", "{{").replace("}", "}}")
         super().__init__(
-            f"'{designation}' is not in the refrigerant catalogue.{hint} "
+            f"'{quoted}' is not in the refrigerant catalogue.{hint} "
             "GET /v1/refrigerants lists every designation.",
             field="refrigerant",
         )
-        # the designation is caller text: keep it out of format() templates
-        self.message = self.message.replace("{", "{{").replace("}", "}}")
 
 
 class OutOfRange(HeatliftError):

@@ -88,14 +88,21 @@ def table(
             "stop ({stop}) lies below start ({start}); give start <= stop",
             {"stop": SIValue(stop, kind), "start": SIValue(start, kind)}, field="stop",
         )
-    count = int((stop - start) / step + 1e-9) + 1
-    if count > max_points:
+    m = model(designation)
+    check = m.check_saturation_temperature if by == "temperature" else m.check_saturation_pressure
+    check(start, field="start")
+    check(stop, field="stop")
+    rows_wanted = (stop - start) / step + 1e-9  # inf for a vanishing step
+    if rows_wanted >= max_points:
+        wanted = f"{int(rows_wanted) + 1}" if rows_wanted < 1e9 else "more than a billion"
         raise InvalidInput(
-            f"the table would have {count} rows; the limit is {max_points}: use a larger step "
-            "(at least {step_min}) or a narrower range",
+            f"the table would have {wanted} rows; the limit is {max_points} rows: use a larger "
+            "step (at least {step_min}) or a narrower range",
             {"step_min": SIValue((stop - start) / max(max_points - 1, 1), step_kind)},
             field="step",
         )
+    count = int(rows_wanted) + 1
     lookup = at_temperature if by == "temperature" else at_pressure
-    rows = [lookup(designation, start + i * step) for i in range(count)]
-    return SaturationTable(model(designation).name, by, rows)
+    # min(): the last row may overshoot stop by rounding (and stop may be just below critical)
+    rows = [lookup(designation, min(start + i * step, stop)) for i in range(count)]
+    return SaturationTable(m.name, by, rows)

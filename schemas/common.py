@@ -29,6 +29,12 @@ class UnitSettingsSchema(Schema):
 class QueryUnitSettingsSchema(UnitSettingsSchema):
     """Unit settings and output format for GET endpoints."""
 
+    # a query string has no objects: kind:unit pairs, comma-separated (read by api.context)
+    unit_overrides = fields.String(  # type: ignore[assignment]
+        metadata={"description": "kind:unit pairs that change single kinds on output, e.g. "
+                                 "pressure:bar,power:TR"},
+    )
+
     format = fields.String(validate=validate.OneOf(["json", "csv"]),
                            metadata={"description": "json (default) or csv"})
     select = fields.String(metadata={"description": "dotted path of one value, answered as text"})

@@ -38,7 +38,10 @@ def using_units(ctx: UnitContext):  # type: ignore[no-untyped-def]
 def _finite(number: Any, name: str = "value") -> float:
     if isinstance(number, bool) or not isinstance(number, int | float):
         raise ValidationError(f"{name} must be a number, not {type(number).__name__}")
-    value = float(number)
+    try:
+        value = float(number)
+    except OverflowError:  # a JSON integer with hundreds of digits
+        value = math.inf
     if not math.isfinite(value):
         raise ValidationError(f"{name} must be a finite number (NaN and Infinity are not accepted)")
     return value
@@ -96,6 +99,8 @@ class Quantity(fields.Field):
             si = ctx.to_si(number, unit, self.kind)
         except UnitError as exc:
             raise ValidationError(str(exc)) from exc
+        if not math.isfinite(si):  # finite in the caller's unit, too large in SI
+            raise ValidationError(f"{number:g} {unit or ctx.input_unit(self.kind)} is too large")
         self._check_bounds(si, ctx)
         return si
 

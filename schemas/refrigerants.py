@@ -23,7 +23,7 @@ class RefrigerantSchema(Schema):
     gwp100 = fields.Nested(GwpSchema)
     critical_temperature = Quantity("temperature")
     critical_pressure = Quantity("pressure")
-    normal_boiling_point = Quantity("temperature")
+    normal_boiling_point = Quantity("temperature", allow_none=True)
     lower_flammability_limit = Quantity("concentration", allow_none=True)
     practical_limit = Quantity("concentration", allow_none=True)
     sources = fields.Dict(keys=fields.String(), values=fields.String())

@@ -113,6 +113,14 @@ def _pint_expression(unit: str) -> str:
     return _POWER_SUFFIX.sub(r"^\1", text)
 
 
+def _clean(number: float) -> float:
+    """Drop the last-bit noise of pint's chained factors (8 bar would come out as
+    799.9999999999999 kPa): a factor that rounds to a short decimal (at most 12 significant
+    digits) is that decimal; anything else (5/9, the psi) keeps every digit."""
+    short = float(f"{number:.12g}")
+    return short if abs(short - number) <= 4e-15 * abs(number) else number
+
+
 @lru_cache(maxsize=4096)
 def affine_map(unit: str, kind: str) -> AffineMap:
     """The map from ``unit`` to the SI base unit of ``kind``; raises :class:`UnitError`."""
@@ -153,10 +161,10 @@ def affine_map(unit: str, kind: str) -> AffineMap:
             f"{', '.join(units_for(kind))}"
         )
     zero = _registry.Quantity(0.0, source).to(target).magnitude
-    one = _registry.Quantity(1.0, source).to(target).magnitude
-    # 15 significant digits: pint's chained factors carry noise in the last bit (8 bar would
-    # come out as 799.9999999999999 kPa)
-    scale, offset = float(f"{one - zero:.15g}"), float(f"{zero:.15g}")
+    span = _registry.Quantity(1000.0, source).to(target).magnitude - zero
+    # the scale over a span of 1000 units, not 1: for an offset unit (degF) the difference of
+    # two nearby values would cancel most digits
+    scale, offset = _clean(span / 1000.0), _clean(zero)
     return AffineMap(scale=scale, offset=offset, gauge=gauge)
 
 

@@ -6,7 +6,7 @@ from flask_smorest import Blueprint
 from api.output import reply
 from heatlift.describe import describe, describe_all
 from schemas.common import QueryUnitSettingsSchema
-from schemas.refrigerants import RefrigerantReplySchema, RefrigerantSchema
+from schemas.refrigerants import RefrigerantListSchema, RefrigerantReplySchema, RefrigerantSchema
 
 ORDER = 10
 blp = Blueprint("refrigerants", __name__, url_prefix="/v1/refrigerants",
@@ -16,7 +16,7 @@ blp = Blueprint("refrigerants", __name__, url_prefix="/v1/refrigerants",
 @blp.route("")
 class Catalogue(MethodView):
     @blp.arguments(QueryUnitSettingsSchema, location="query")
-    @blp.response(200, RefrigerantSchema(many=True))
+    @blp.response(200, RefrigerantListSchema)
     def get(self, _args):
         """Every refrigerant: kind, composition, safety class, GWP100, critical point."""
         return reply(RefrigerantSchema(many=True), describe_all(), wrap="refrigerants")
