@@ -17,6 +17,7 @@ from flask.json.provider import DefaultJSONProvider
 from marshmallow import ValidationError
 from werkzeug.exceptions import BadRequest, UnprocessableEntity, UnsupportedMediaType
 
+from api.auth import check_key
 from heatlift.errors import Remark
 from schemas.fields import Quantity, _current
 from schemas.units import STANDARD_ATMOSPHERE, SYSTEMS, UnitContext, UnitError, check_override
@@ -161,13 +162,17 @@ def _check_content_type() -> None:
     )
 
 
-def _before() -> None:
+def _before() -> Response | None:
     g.started = time.perf_counter()
     incoming = request.headers.get("X-Request-ID", "")
     g.request_id = incoming if _REQUEST_ID.match(incoming) else uuid.uuid4().hex
     g.remarks = []
+    refused = check_key()  # before anything of the body is read
+    if refused is not None:
+        return refused
     _check_content_type()
     g.unit_token = _current.set(unit_context_from_request())
+    return None
 
 
 def _after(response: Response) -> Response:

@@ -129,6 +129,21 @@ def csv_text(records: list[dict[str, Any]]) -> str:
     return buffer.getvalue()
 
 
+def unite_null_quantities(records: list[dict[str, Any]]) -> list[dict[str, Any]]:
+    """A quantity that is null in one row (``lower_flammability_limit`` of a non-flammable
+    refrigerant) flattens without its unit; put it in the ``name [unit]`` column of the rows
+    that have a value, so that each quantity is one column."""
+    united: dict[str, str] = {}
+    for record in records:
+        for key in record:
+            if key.endswith("]") and " [" in key:
+                united.setdefault(key.rsplit(" [", 1)[0], key)
+    return [
+        {(united[k] if v is None and k in united else k): v for k, v in record.items()}
+        for record in records
+    ]
+
+
 def csv_response(body: dict[str, Any], rows_key: str | None = None) -> Response:
     if rows_key and isinstance(body.get(rows_key), list):
         shared = {k: v for k, v in body.items() if k != rows_key}
@@ -136,4 +151,4 @@ def csv_response(body: dict[str, Any], rows_key: str | None = None) -> Response:
         records = [{**head, **flatten(row)} for row in body[rows_key]]
     else:
         records = [flatten(body)]
-    return Response(csv_text(records), mimetype="text/csv")
+    return Response(csv_text(unite_null_quantities(records)), mimetype="text/csv")

@@ -13,6 +13,7 @@ from flask import Flask, Response, json
 from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
+from api.metrics import count_failure
 from heatlift.errors import HeatliftError, SIValue
 from schemas.fields import current_units
 
@@ -54,6 +55,8 @@ def from_engine(error: HeatliftError) -> Response:
     if hasattr(error, "suggestions"):
         extra = {"suggestions": error.suggestions}
     slug = type(error).__name__.lower()
+    if error.status == 422:  # a calculation the engine refused (not an unknown name: 404)
+        count_failure(slug)
     return problem(error.status, error.title, detail, errors, slug, extra)
 
 

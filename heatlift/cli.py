@@ -21,6 +21,29 @@ def _serve(args: argparse.Namespace) -> int:
     return 0  # not reached
 
 
+def _prepare(_args: argparse.Namespace) -> int:
+    """Build everything the engine keeps (property models of every catalogue refrigerant) once,
+    as the container image does at build time; prints how long it took."""
+    import time
+
+    from heatlift.warmup import warm_up
+
+    started = time.perf_counter()
+    warm_up()
+    print(f"heatlift: property models ready in {time.perf_counter() - started:.2f} s")
+    return 0
+
+
+def _warm_tables(args: argparse.Namespace) -> int:
+    """Build the blends' saturation tables once (install or image build); see
+    :mod:`heatlift.properties_tables`."""
+    from heatlift import properties_tables
+
+    path = properties_tables.build(names=args.blend or None)
+    print(f"tables written to {path}")
+    return 0
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="heatlift", description=__doc__)
     sub = parser.add_subparsers(dest="command", required=True)
@@ -31,6 +54,19 @@ def build_parser() -> argparse.ArgumentParser:
         help=f"worker processes, default the core count ({multiprocessing.cpu_count()})",
     )
     serve.set_defaults(func=_serve)
+    warm = sub.add_parser(
+        "warm-tables",
+        help="build the blends' saturation tables once (at install or image build; "
+             "HEATLIFT_TABLES_DIR says where, default ~/.cache/heatlift)",
+    )
+    warm.add_argument("--blend", action="append",
+                      help="only this blend (repeatable); default every blend of the catalogue")
+    warm.set_defaults(func=_warm_tables)
+    prepare = sub.add_parser("prepare", help="build the property models once (image build)")
+    prepare.set_defaults(func=_prepare)
+    from heatlift.check_command import add_check_parser
+
+    add_check_parser(sub)
     return parser
 
 

@@ -26,6 +26,7 @@ from typing import Any
 import CoolProp
 import CoolProp.CoolProp as CP
 
+from heatlift import flash, properties_tables
 from heatlift.errors import InvalidInput, NotConverged, OutOfRange, PropertyFailure, SIValue
 from heatlift.refrigerants import Refrigerant, lookup
 
@@ -87,6 +88,11 @@ class PropertyModel:
             moles = [w / m for w, m in zip(masses, molar, strict=True)]
             self._mole_fractions = [n / sum(moles) for n in moles]
         self.limits = self._find_limits()
+        self._constants = flash.constants(self._state())  # (R [J/kg/K], M [kg/mol])
+        self._t_max = self._state().Tmax()
+        # a pure fluid's bubble and dew coincide; the library's pseudo-pure blends (R404A,
+        # R407C, R410A, R507A) keep a glide between separate bubble and dew lines
+        self._one_temperature = refrigerant.kind == "pure"
 
     # -- the per-thread CoolProp state -------------------------------------------------------
 
@@ -192,8 +198,41 @@ class PropertyModel:
     def saturated_at_temperature(self, temperature: float, quality: float) -> State:
         """Bubble (``quality`` 0) or dew (1) point at ``temperature`` [K]."""
         self.check_saturation_temperature(temperature)
+        table = self._table()
+        if table is not None:
+            found = table.pressure_at(temperature, quality == 1.0)
+            if found is not None:
+                return self.saturated_at_pressure(found, quality)
         state = self._update(CP.QT_INPUTS, quality, temperature)
+        if self.is_mixture and state.p() >= self.critical_pressure:
+            # with a phase envelope built on the state, the library's flash can land on the
+            # envelope's far branch (R454B dew point at 2.3 degC: 14.3 MPa, not 787 kPa):
+            # the same flash on a state without an envelope
+            plain = CP.AbstractState("HEOS", self._backend_name)
+            assert self._mole_fractions is not None
+            plain.set_mole_fractions(self._mole_fractions)
+            try:
+                plain.update(CP.QT_INPUTS, quality, temperature)
+            except ValueError as exc:
+                raise PropertyFailure(
+                    f"the equation of state of {self.name} could not be evaluated here",
+                ) from exc
+            state = plain
+        if self._one_temperature:
+            # both coexisting phases at once; remembered by pressure like the pressure flashes
+            bubble, dew = _coexisting(state)
+            self._remember_saturation(bubble, dew)
+            return dew if quality == 1.0 else bubble
         return self._snapshot(state, quality, "two_phase")
+
+    def _remember_saturation(self, *found: State) -> None:
+        cache = getattr(self._local, "saturation", None)
+        if cache is None:
+            cache = self._local.saturation = {}
+        if len(cache) >= 512:
+            cache.clear()
+        for sat in found:
+            cache[(sat.pressure, sat.quality)] = sat
 
     def saturated_at_pressure(self, pressure: float, quality: float) -> State:
         """Bubble (``quality`` 0) or dew (1) point at ``pressure`` [Pa].
@@ -210,17 +249,45 @@ class PropertyModel:
         if found is not None:
             return found
         self.check_saturation_pressure(pressure)
+        table = self._table()
+        if table is not None and table.covers(pressure) and quality in (0.0, 1.0):
+            bubble, dew = (State(pressure, t, h, s, 1.0 / v, q, "two_phase")
+                           for (t, h, s, v), q in zip(table.lines(pressure), (0.0, 1.0),
+                                                      strict=True))
+            self._remember_saturation(bubble, dew)
+            return dew if quality == 1.0 else bubble
         state = self._update(CP.PQ_INPUTS, pressure, quality)
-        result = self._snapshot(state, quality, "two_phase")
         if len(cache) >= 512:
             cache.clear()
+        if not self.refrigerant.is_blend:
+            # one flash of a pure fluid yields both coexisting phases: keep both (not for the
+            # pseudo-pure blends R404A, R407C ...: their bubble and dew points differ)
+            bubble, dew = _coexisting(state)
+            cache[(pressure, 0.0)], cache[(pressure, 1.0)] = bubble, dew
+            return dew if quality == 1.0 else bubble if quality == 0.0 else \
+                self._snapshot(state, quality, "two_phase")
+        result = self._snapshot(state, quality, "two_phase")
         cache[key] = result
         return result
 
     # -- states from a pressure and one more property ------------------------------------------
 
+    def check_equation_range(self, pressure: float, temperature: float) -> None:
+        """The equation of state's own range: temperature up to its Tmax, pressure up to its
+        pmax (beyond them CoolProp refuses or extrapolates)."""
+        state = self._state()
+        t_max, p_max = state.Tmax(), state.pmax()
+        if temperature > t_max or pressure > p_max:
+            raise OutOfRange(
+                f"{{t}} and {{p}} lie outside the equation of state of {self.name}, which "
+                "covers temperatures up to {tmax} and pressures up to {pmax}",
+                {"t": _t(temperature), "p": _p(pressure), "tmax": _t(t_max),
+                 "pmax": _p(p_max)},
+            )
+
     def at_pressure_temperature(self, pressure: float, temperature: float) -> State:
         """State at ``pressure`` [Pa] and ``temperature`` [K]; two-phase only for blends."""
+        self.check_equation_range(pressure, temperature)
         if pressure >= self.critical_pressure or temperature >= self.critical_temperature:
             return self._single_phase_pt(pressure, temperature, "supercritical")
         self.check_saturation_pressure(pressure)
@@ -236,7 +303,7 @@ class PropertyModel:
                 "pressure do not fix a two-phase state; give the quality or the enthalpy",
                 {"t": _t(temperature), "p": _p(pressure)},
             )
-        return self._two_phase_at(pressure, temperature, lambda s: s.temperature, bubble, dew)
+        return self._two_phase_at(pressure, temperature, lambda s: s.temperature, bubble, dew, 0)
 
     def at_pressure_enthalpy(self, pressure: float, enthalpy: float) -> State:
         """State at ``pressure`` [Pa] and specific ``enthalpy`` [J/kg]."""
@@ -247,10 +314,86 @@ class PropertyModel:
         return self._at_pressure(pressure, entropy, "entropy")
 
     def at_pressure_quality(self, pressure: float, quality: float) -> State:
-        """Two-phase state at ``pressure`` [Pa] and vapour mass fraction ``quality`` [1]."""
+        """Two-phase state at ``pressure`` [Pa] and vapour mass fraction ``quality`` [1].
+
+        For a blend the library's quality is the vapour's mole fraction, which differs from
+        the mass fraction where the phases' compositions (and so molar masses) differ: from the
+        blend's table (:mod:`heatlift.properties_tables`) when it covers the pressure, else by
+        secant steps on the library's molar quality until its mass fraction is ``quality``.
+        """
         self.check_saturation_pressure(pressure)
-        state = self._update(CP.PQ_INPUTS, pressure, quality)
-        return self._snapshot(state, quality, "two_phase")
+        if not self.is_mixture or quality in (0.0, 1.0):
+            state = self._update(CP.PQ_INPUTS, pressure, quality)
+            return self._snapshot(state, quality, "two_phase")
+        found = self._from_table(pressure, 4, quality)
+        if found is not None:
+            return found
+        return self._mixture_two_phase(pressure, quality)
+
+    def _from_table(self, pressure: float, which: int, target: float) -> State | None:
+        """Blend's two-phase state at ``pressure`` whose property ``which`` (0 T, 1 h, 2 s,
+        4 mass quality) is ``target``, from its table; None where no table covers it."""
+        table = self._table()
+        if table is None or not table.covers(pressure):
+            return None
+        found = table.two_phase(pressure, which, target)
+        if found is None:
+            return None
+        t, h, s, v, q = found
+        return State(pressure, t, h, s, 1.0 / v, q, "two_phase")
+
+    def _mixture_two_phase(self, pressure: float, quality: float) -> State:
+        """Blend, no table: the library's flash at the molar quality whose mass fraction is
+        ``quality`` (secant steps from Q = q, at most 20).
+
+        A flash whose temperature falls outside the bubble-to-dew range at the pressure (the
+        library's two-phase flash of a mixture with a phase envelope built sometimes lands on
+        a spurious root: R454B at 839 kPa, Q = 0.2: 286 K and -17 kJ/kg between 276.0 and
+        277.5 K) is repeated on a state without the envelope.
+        """
+        t_low = self.saturated_at_pressure(pressure, 0.0).temperature
+        t_high = self.saturated_at_pressure(pressure, 1.0).temperature
+        slack = 1e-6 * t_high
+        plain: CP.AbstractState | None = None
+
+        def flashed(q_molar: float) -> CP.AbstractState:
+            nonlocal plain
+            state = self._update(CP.PQ_INPUTS, pressure, q_molar) if plain is None else plain
+            if plain is None and t_low - slack <= state.T() <= t_high + slack:
+                return state
+            if plain is None:
+                plain = CP.AbstractState("HEOS", self._backend_name)
+                assert self._mole_fractions is not None
+                plain.set_mole_fractions(self._mole_fractions)
+            try:
+                plain.update(CP.PQ_INPUTS, pressure, q_molar)
+            except ValueError as exc:
+                raise PropertyFailure(
+                    f"the equation of state of {self.name} could not be evaluated here",
+                ) from exc
+            if not t_low - slack <= plain.T() <= t_high + slack:
+                raise NotConverged(
+                    f"the two-phase state of {self.name} at {{p}} did not converge",
+                    {"p": _p(pressure)})
+            return plain
+
+        q0 = quality
+        state = flashed(q0)
+        f0 = state.Qmass() - quality
+        q1 = min(1.0, max(0.0, quality - f0))
+        for _ in range(20):
+            state = flashed(q1)
+            f1 = state.Qmass() - quality
+            if abs(f1) <= 1e-12 or f1 == f0:
+                break
+            q0, q1, f0 = q1, min(1.0, max(0.0, q1 - f1 * (q1 - q0) / (f1 - f0))), f1
+        return self._snapshot(state, state.Qmass(), "two_phase")
+
+    def _table(self) -> properties_tables.BlendTable | None:
+        """The blend's fitted saturation (built by ``heatlift warm-tables``), if any."""
+        if not self.is_mixture:
+            return None
+        return properties_tables.table_for(self.name)
 
     def at_temperature_quality(self, temperature: float, quality: float) -> State:
         """Two-phase state at ``temperature`` [K] and quality [1]."""
@@ -299,18 +442,33 @@ class PropertyModel:
             return state.enthalpy if which == "enthalpy" else state.entropy
 
         if pressure >= self.critical_pressure:
-            self._check_span(pressure, target, which, "supercritical", "supercritical")
-            return self._single_phase_solve(pressure, target, which, "supercritical", None)
+            return self._spanned_solve(pressure, target, which, "supercritical", None,
+                                       "supercritical", "supercritical")
         self.check_saturation_pressure(pressure)
         bubble = self.saturated_at_pressure(pressure, 0.0)
         dew = self.saturated_at_pressure(pressure, 1.0)
         if target > prop(dew):
-            self._check_span(pressure, target, which, None, "superheated_vapor")
-            return self._single_phase_solve(pressure, target, which, "superheated_vapor", dew)
+            return self._spanned_solve(pressure, target, which, "superheated_vapor", dew,
+                                       None, "superheated_vapor")
         if target < prop(bubble):
-            self._check_span(pressure, target, which, "subcooled_liquid", None)
-            return self._single_phase_solve(pressure, target, which, "subcooled_liquid", bubble)
-        return self._two_phase_at(pressure, target, prop, bubble, dew)
+            return self._spanned_solve(pressure, target, which, "subcooled_liquid", bubble,
+                                       "subcooled_liquid", None)
+        return self._two_phase_at(pressure, target, prop, bubble, dew,
+                                  1 if which == "enthalpy" else 2)
+
+    def _spanned_solve(self, pressure: float, target: float, which: str, phase: str,
+                       start: State | None, low: str | None, high: str | None) -> State:
+        """:meth:`_single_phase_solve`, with the span of the equation of state checked
+        (:meth:`_check_span`, OutOfRange) only when the solve fails or its temperature lies
+        outside the equation of state's range: a state inside costs no bound evaluations."""
+        try:
+            found = self._single_phase_solve(pressure, target, which, phase, start)
+        except (NotConverged, PropertyFailure):
+            self._check_span(pressure, target, which, low, high)
+            raise
+        if not self.limits.temperature_min <= found.temperature <= self._t_max:
+            self._check_span(pressure, target, which, low, high)
+        return found
 
     def _check_span(
         self, pressure: float, target: float, which: str, low: str | None, high: str | None
@@ -344,30 +502,37 @@ class PropertyModel:
     _PHASE_FLAGS = {
         "superheated_vapor": CP.iphase_gas,
         "subcooled_liquid": CP.iphase_liquid,
-        "supercritical": CP.iphase_supercritical,
+        # for the equation of state evaluated at (T, rho) the imposed phase only skips the
+        # phase search; "supercritical liquid" is accepted on either side of T_c (the
+        # library refuses "supercritical" below T_c)
+        "supercritical": CP.iphase_supercritical_liquid,
     }
 
     def _single_phase_pt(self, pressure: float, temperature: float, phase: str) -> State:
-        if not self.is_mixture:
-            state = self._update(CP.PT_INPUTS, pressure, temperature, self._PHASE_FLAGS[phase])
-            return self._snapshot(state, None, self._phase_name(state, phase))
+        """Single-phase state at ``pressure`` [Pa] and ``temperature`` [K]: Newton in density
+        on the equation of state with the phase imposed (:func:`heatlift.flash.density_at`),
+        from the saturated phase's density; a pure fluid falls back on the library's flash."""
         flag = self._PHASE_FLAGS[phase]
         rho = self._density_guess(pressure, temperature, phase)
         state = self._state()
-        for _ in range(_MAX_ITERATIONS):
-            state = self._update(CP.DmassT_INPUTS, rho, temperature, flag)
-            error = state.p() - pressure
-            if abs(error) <= 1e-12 * pressure:
-                return self._snapshot(state, None, self._phase_name(state, phase))
-            slope = state.first_partial_deriv(CP.iP, CP.iDmass, CP.iT)
-            if slope <= 0.0:  # inside the spinodal: step back towards the stable branch
-                rho *= 0.8 if phase == "superheated_vapor" else 1.05
-                continue
-            rho -= max(-0.5 * rho, min(0.5 * rho, error / slope))
-        raise NotConverged(
-            f"no {phase.replace('_', ' ')} state of {self.name} was found at {{p}} and {{t}}",
-            {"p": _p(pressure), "t": _t(temperature)},
-        )
+        branch = {"superheated_vapor": "vapor", "subcooled_liquid": "liquid"}.get(phase, "any")
+        try:
+            flash.density_at(state, pressure, temperature, rho, flag, branch, self._constants)
+        except flash.FlashFailure as exc:
+            if self.is_mixture:
+                raise NotConverged(
+                    f"no {phase.replace('_', ' ')} state of {self.name} was found at {{p}} and "
+                    "{t}", {"p": _p(pressure), "t": _t(temperature)},
+                ) from exc
+            # the library's flash, finding the phase itself above the critical pressure (an
+            # imposed supercritical phase below T_c lands on a metastable root there)
+            state = self._update(CP.PT_INPUTS, pressure, temperature,
+                                 None if phase == "supercritical" else flag)
+        starts = self._starts()
+        if len(starts) > 64:
+            starts.clear()
+        starts[(pressure, phase)] = (temperature, state.rhomass())
+        return self._snapshot(state, None, self._phase_name(state, phase))
 
     def _phase_name(self, state: CP.AbstractState, phase: str) -> str:
         """Above the critical pressure a state is supercritical; below it, hotter than the
@@ -380,71 +545,103 @@ class PropertyModel:
         return phase
 
     def _density_guess(self, pressure: float, temperature: float, phase: str) -> float:
-        """A starting density [kg/m^3]: the saturated phase at the pressure, scaled for vapour
-        like an ideal gas (rho ~ p / T); the liquid's density barely moves."""
+        """A starting density [kg/m^3] for the phase at ``pressure`` [Pa], ``temperature`` [K].
+
+        Vapour: the dew point's compressibility Z_d = p / (rho_d R T_d), relaxed towards the
+        ideal gas as (T_d / T)^2.5 (the second virial term B p / (R T) falls roughly so),
+        rho = p / (Z R T). Liquid of a pure fluid: the saturated liquid at the temperature
+        (a saturation evaluation costs about a microsecond), which Newton's first step corrects
+        for compression; of a blend: the bubble point at the pressure. Supercritical: 1.5 times
+        the ideal gas's density.
+        """
+        r_mass = self._constants[0]
         if phase == "supercritical" or pressure >= self.critical_pressure:
-            molar = self._state().molar_mass()
-            return pressure * molar / (8.314462618 * temperature) * 1.5
-        quality = 1.0 if phase == "superheated_vapor" else 0.0
-        sat = self.saturated_at_pressure(pressure, quality)
+            if not self.is_mixture and temperature < self.critical_temperature:
+                # dense, liquid-like: start above the saturated liquid so that Newton cannot
+                # reach the metastable vapour-like root of the same isotherm
+                return self._update(CP.QT_INPUTS, 0.0, temperature).rhomass() * 1.02
+            return pressure / (r_mass * temperature) * 1.5
         if phase == "superheated_vapor":
-            return sat.density * sat.temperature / temperature
-        return sat.density
+            sat = self.saturated_at_pressure(pressure, 1.0)
+            z_dew = pressure / (sat.density * r_mass * sat.temperature)
+            z = 1.0 - (1.0 - z_dew) * (sat.temperature / temperature) ** 2.5
+            return pressure / (z * r_mass * temperature)
+        if not self.is_mixture and temperature >= self.limits.temperature_min:
+            state = self._update(CP.QT_INPUTS, 0.0, temperature)
+            return state.rhomass()
+        return self.saturated_at_pressure(pressure, 0.0).density
 
     def _single_phase_solve(
         self, pressure: float, target: float, which: str, phase: str, start: State | None
     ) -> State:
         """The single-phase state at ``pressure`` with the given enthalpy or entropy.
 
-        Pure fluids: the library's own flash. Blends: Newton steps in temperature and density
-        on the equation of state with the phase imposed (each evaluation takes microseconds):
-        solve p(T, rho) = p*, y(T, rho) = y* (y = h or s) with the 2x2 Jacobian of partial
-        derivatives at constant rho and at constant T.
+        Newton steps in temperature and density on the equation of state with the phase
+        imposed (:func:`heatlift.flash.pressure_and`; each evaluation takes microseconds),
+        starting from the last state this thread solved at the same pressure in the same phase
+        (a start only, never an answer) or else from the saturated state ``start``. A pure
+        fluid whose steps fail falls back on the library's own flash; a blend raises
+        NotConverged. The answer must lie on the side of saturation the phase says.
         """
-        if not self.is_mixture:
+        flag = self._PHASE_FLAGS[phase]
+        starts = self._starts()
+        guess = starts.get((pressure, phase))
+        if guess is None:
+            if start is not None:
+                guess = flash.first_guess_from_saturation(
+                    start.temperature, start.density, target, which, phase == "superheated_vapor")
+            else:
+                temperature = self.critical_temperature * 1.2
+                guess = (temperature, self._density_guess(pressure, temperature, phase))
+        state = self._state()
+        try:
+            flash.pressure_and(state, pressure, target, which, guess[0], guess[1], flag,
+                               self._constants)
+            wrong_side = start is not None and (
+                state.T() < start.temperature if phase == "superheated_vapor"
+                else state.T() > start.temperature)
+            if wrong_side:
+                raise flash.FlashFailure("converged on the other side of saturation")
+            if start is None and not self.is_mixture and self._metastable(state):
+                raise flash.FlashFailure("converged on a metastable root")
+        except flash.FlashFailure as exc:
+            if self.is_mixture:
+                raise NotConverged(
+                    f"no {phase.replace('_', ' ')} state of {self.name} was found at {{p}} with "
+                    f"that {which}", {"p": _p(pressure)},
+                ) from exc
             pair = CP.HmassP_INPUTS if which == "enthalpy" else CP.PSmass_INPUTS
             a, b = (target, pressure) if which == "enthalpy" else (pressure, target)
             state = self._update(pair, a, b)
-            return self._snapshot(state, None, self._phase_name(state, phase))
-        flag = self._PHASE_FLAGS[phase]
-        prop = CP.iHmass if which == "enthalpy" else CP.iSmass
-        if start is not None:
-            temperature, rho = start.temperature, start.density
-            # first step in temperature alone, by the saturated state's cp
-            state = self._update(CP.DmassT_INPUTS, rho, temperature, flag)
-            value = state.hmass() if which == "enthalpy" else state.smass()
-            slope = state.cpmass() if which == "enthalpy" else state.cpmass() / temperature
-            step = max(-0.3 * temperature, min(0.3 * temperature, (target - value) / slope))
-            temperature += step
-            rho = self._density_guess(pressure, temperature, phase)
-        else:
-            temperature = self.critical_temperature * 1.2
-            rho = self._density_guess(pressure, temperature, phase)
-        for _ in range(_MAX_ITERATIONS):
-            state = self._update(CP.DmassT_INPUTS, rho, temperature, flag)
-            value = state.hmass() if which == "enthalpy" else state.smass()
-            f1, f2 = state.p() - pressure, value - target
-            if abs(f1) <= 1e-12 * pressure and abs(f2) <= 1e-11 * max(abs(target), 1e3):
-                return self._snapshot(state, None, self._phase_name(state, phase))
-            a = state.first_partial_deriv(CP.iP, CP.iT, CP.iDmass)
-            b = state.first_partial_deriv(CP.iP, CP.iDmass, CP.iT)
-            c = state.first_partial_deriv(prop, CP.iT, CP.iDmass)
-            d = state.first_partial_deriv(prop, CP.iDmass, CP.iT)
-            det = a * d - b * c
-            if det == 0.0 or b <= 0.0:
-                rho *= 0.8 if phase == "superheated_vapor" else 1.05
-                continue
-            d_t = (f1 * d - b * f2) / det
-            d_rho = (a * f2 - c * f1) / det
-            scale = min(1.0, 0.3 * temperature / abs(d_t) if d_t else 1.0,
-                        0.5 * rho / abs(d_rho) if d_rho else 1.0)
-            temperature -= scale * d_t
-            rho -= scale * d_rho
-        raise NotConverged(
-            f"no {phase.replace('_', ' ')} state of {self.name} was found at {{p}} with that "
-            f"{which}",
-            {"p": _p(pressure)},
-        )
+        if len(starts) > 64:
+            starts.clear()
+        starts[(pressure, phase)] = (state.T(), state.rhomass())
+        return self._snapshot(state, None, self._phase_name(state, phase))
+
+    def _metastable(self, state: CP.AbstractState) -> bool:
+        """A pure fluid above its critical pressure but below its critical temperature is
+        stable only denser than its saturated liquid at that temperature."""
+        temperature, rho = state.T(), state.rhomass()
+        if temperature >= self.critical_temperature or \
+                temperature < self.limits.temperature_min:
+            return False
+        check = self._components_state()
+        check.update(CP.QT_INPUTS, 0.0, temperature)
+        return rho < check.rhomass()
+
+    def _components_state(self) -> CP.AbstractState:
+        """A second per-thread state of the fluid, for checks that must not disturb the first."""
+        found = getattr(self._local, "second", None)
+        if found is None:
+            found = self._local.second = CP.AbstractState("HEOS", self._backend_name)
+        return found
+
+    def _starts(self) -> dict[tuple[float, str], tuple[float, float]]:
+        """This thread's last solved (T [K], rho [kg/m^3]) per (pressure, phase): Newton starts."""
+        found = getattr(self._local, "starts", None)
+        if found is None:
+            found = self._local.starts = {}
+        return found
 
     # -- two phase ------------------------------------------------------------------------------
 
@@ -455,13 +652,21 @@ class PropertyModel:
         prop: Callable[[State], float],
         bubble: State,
         dew: State,
+        which: int | None = None,
     ) -> State:
         """The quality at which ``prop`` of the two-phase state at ``pressure`` equals ``target``.
+
+        A blend with a table covering the pressure: the table's two-phase series (``which``
+        names the property: 0 temperature, 1 enthalpy, 2 entropy).
 
         For a pure fluid enthalpy and entropy are linear in quality, so the first guess is exact;
         for a blend a bounded secant iteration on saturation flashes (at most 40 steps, bracket
         kept) refines it.
         """
+        if which is not None and self.is_mixture:
+            found = self._from_table(pressure, which, target)
+            if found is not None:
+                return found
         low, high = prop(bubble), prop(dew)
         quality = (target - low) / (high - low)
         glide = dew.temperature - bubble.temperature
@@ -469,6 +674,7 @@ class PropertyModel:
             return self.at_pressure_quality(pressure, min(1.0, max(0.0, quality)))
         q_lo, f_lo = 0.0, low - target
         q_hi, f_hi = 1.0, high - target
+        kept = 0  # Illinois variant of regula falsi: halve an end kept twice in a row
         for _ in range(_MAX_ITERATIONS):
             state = self.at_pressure_quality(pressure, quality)
             f = prop(state) - target
@@ -476,8 +682,14 @@ class PropertyModel:
                 return state
             if (f < 0) == (f_lo < 0):
                 q_lo, f_lo = quality, f
+                kept = kept + 1 if kept > 0 else 1
+                if kept > 1:
+                    f_hi *= 0.5
             else:
                 q_hi, f_hi = quality, f
+                kept = kept - 1 if kept < 0 else -1
+                if kept < -1:
+                    f_lo *= 0.5
             quality = q_lo - f_lo * (q_hi - q_lo) / (f_hi - f_lo)
             if not q_lo < quality < q_hi:
                 quality = 0.5 * (q_lo + q_hi)
@@ -563,7 +775,14 @@ class PropertyModel:
             raise refuse()
         p_sat = self.saturated_at_temperature(temperature, 1.0).pressure
         lo, hi = math.log(p_sat * 1e-6), math.log(p_sat)
-        top = self._single_phase_pt(math.exp(lo), temperature, "superheated_vapor")
+
+        def vapor(ln_p: float) -> State:
+            # the library's own phase-imposed evaluation: valid below the triple-point
+            # pressure too, where a vapour at this temperature still exists
+            state = self._update(CP.PT_INPUTS, math.exp(ln_p), temperature, CP.iphase_gas)
+            return self._snapshot(state, None, "superheated_vapor")
+
+        top = vapor(lo)
         if enthalpy > top.enthalpy:
             raise OutOfRange(
                 f"{{h}} is above the enthalpy of {self.name} vapour at {{t}} at any pressure "
@@ -576,14 +795,13 @@ class PropertyModel:
             raise refuse()
         for _ in range(80):
             mid = 0.5 * (lo + hi)
-            if self._single_phase_pt(math.exp(mid), temperature,
-                                     "superheated_vapor").enthalpy > enthalpy:
+            if vapor(mid).enthalpy > enthalpy:
                 lo = mid
             else:
                 hi = mid
             if hi - lo < 1e-12:
                 break
-        return self._single_phase_pt(math.exp(0.5 * (lo + hi)), temperature, "superheated_vapor")
+        return vapor(0.5 * (lo + hi))
 
     def _general_flash(self, given: dict[str, float]) -> State:
         pairs = {
@@ -629,9 +847,15 @@ class PropertyModel:
         """
         liquid = phase in ("liquid", "subcooled_liquid")
         if not self.is_mixture:
-            flag = CP.iphase_liquid if liquid else CP.iphase_gas
             if pressure >= self.critical_pressure or temperature >= self.critical_temperature:
                 flag = CP.iphase_supercritical
+            else:
+                if self.limits.pressure_min <= pressure:
+                    # the side of the saturation line decides; the hint only on the line itself
+                    t_sat = self.saturated_at_pressure(pressure, 0.0).temperature
+                    if abs(temperature - t_sat) > 1e-9 * t_sat:
+                        liquid = temperature < t_sat
+                flag = CP.iphase_liquid if liquid else CP.iphase_gas
             state = self._update(CP.PT_INPUTS, pressure, temperature, flag)
             try:
                 return Transport(viscosity=state.viscosity())
@@ -707,6 +931,16 @@ def _component_viscosity(
         return state.viscosity(), molar_mass
     finally:
         state.unspecify_phase()
+
+
+def _coexisting(state: CP.AbstractState) -> tuple[State, State]:
+    """(bubble, dew) of a pure fluid from the state of one saturation flash."""
+    p, t = state.p(), state.T()
+    liq, vap = state.saturated_liquid_keyed_output, state.saturated_vapor_keyed_output
+    return (
+        State(p, t, liq(CP.iHmass), liq(CP.iSmass), liq(CP.iDmass), 0.0, "two_phase"),
+        State(p, t, vap(CP.iHmass), vap(CP.iSmass), vap(CP.iDmass), 1.0, "two_phase"),
+    )
 
 
 @cache

@@ -30,9 +30,12 @@ def evaluate(designation: str, **given: float) -> StateReport:
     m = model(designation)
     state = m.state(**given)
     superheat = subcooling = t_bubble = t_dew = None
-    if state.pressure < m.critical_pressure and state.pressure >= m.limits.pressure_min:
-        t_bubble = m.saturated_at_pressure(state.pressure, 0.0).temperature
-        t_dew = m.saturated_at_pressure(state.pressure, 1.0).temperature
+    # the pressure as given, when given: the flashed state's pressure can differ from it in
+    # the tenth digit, and the superheat must match a saturation look-up at the gauge reading
+    pressure = given.get("pressure", state.pressure)
+    if pressure < m.critical_pressure and pressure >= m.limits.pressure_min:
+        t_bubble = m.saturated_at_pressure(pressure, 0.0).temperature
+        t_dew = m.saturated_at_pressure(pressure, 1.0).temperature
         if state.phase == "superheated_vapor":
             superheat = state.temperature - t_dew
         elif state.phase == "subcooled_liquid":

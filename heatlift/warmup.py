@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import threading
 
+from heatlift import properties_tables
 from heatlift.properties import model
 from heatlift.refrigerants import catalogue
 
@@ -18,6 +19,7 @@ def warm_up() -> None:
             return
         for designation in catalogue():
             model(designation)
+        properties_tables.preload()  # the blends' tables, built at install: read, never built
         _done.set()
 
 

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from marshmallow import Schema, fields, validate
+from marshmallow import INCLUDE, Schema, fields, validate
 
 from schemas.fields import Quantity
 
@@ -86,10 +86,15 @@ class SaturatedPhaseSchema(Schema):
 
 
 class ProblemSchema(Schema):
-    """RFC 9457 problem details."""
+    """RFC 9457 problem details (extension members such as ``suggestions`` may follow)."""
+
+    class Meta:
+        unknown = INCLUDE
 
     type = fields.String()
     title = fields.String()
     status = fields.Integer()
     detail = fields.String()
     errors = fields.Dict(keys=fields.String(), values=fields.List(fields.String()))
+    suggestions = fields.List(fields.String(), metadata={
+        "description": "close matches of an unknown refrigerant"})

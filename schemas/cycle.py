@@ -6,6 +6,8 @@ from typing import Any
 
 from marshmallow import Schema, ValidationError, fields, post_load, validate, validates_schema
 
+from heatlift.compressor import BASES as POLYNOMIAL_BASES
+from heatlift.compressor import POWER_CORRECTIONS, PolynomialSpec
 from heatlift.cycle import (
     CIRCUITS,
     CompressorSpec,
@@ -23,6 +25,7 @@ from schemas.common import (
     UnitSettingsSchema,
     refrigerant_field,
 )
+from schemas.compressors import PolynomialCoefficientsSchema, PolynomialRatingSchema
 from schemas.fields import Quantity, current_units
 from schemas.units import UnitError, split_quantity_text
 
@@ -69,11 +72,32 @@ class GasCoolerSchema(Schema):
         return GasCoolerSpec(data["outlet_temperature"], data.get("pressure"))
 
 
+class CyclePolynomialSchema(Schema):
+    """A compressor polynomial inside a cycle request (the refrigerant is the cycle's)."""
+
+    basis = fields.String(required=True, validate=validate.OneOf(POLYNOMIAL_BASES))
+    coefficients = fields.Nested(PolynomialCoefficientsSchema, required=True)
+    rating = fields.Nested(PolynomialRatingSchema, required=True)
+    power_correction = fields.String(load_default="isentropic_efficiency",
+                                     validate=validate.OneOf(POWER_CORRECTIONS))
+
+    @post_load
+    def _make(self, data: dict, **_: Any) -> PolynomialSpec:
+        return PolynomialSpec(
+            refrigerant="",  # filled with the cycle's refrigerant by the engine
+            rating=data["rating"], basis=data["basis"],
+            power_correction=data["power_correction"],
+            **{k: tuple(v) for k, v in data["coefficients"].items()},  # type: ignore[arg-type]
+        )
+
+
 class CompressorSchema(Schema):
     isentropic_efficiency = Quantity("dimensionless", minimum=0.0, maximum=1.0, exclusive=False)
     heat_loss_fraction = Quantity("dimensionless", minimum=0.0, maximum=0.5, load_default=0.0)
     displacement = Quantity("volume_flow", minimum=0.0, exclusive=True)
     volumetric_efficiency = Quantity("dimensionless", minimum=0.0, maximum=1.0)
+    polynomial = fields.Nested(CyclePolynomialSchema, load_default=None, metadata={
+        "description": "the supplier's AHRI 540 / EN 12900 polynomials; they size the cycle"})
 
     @validates_schema
     def _efficiency(self, data: dict, **_: Any) -> None:
@@ -89,6 +113,7 @@ class CompressorSchema(Schema):
             heat_loss_fraction=data["heat_loss_fraction"],
             displacement=data.get("displacement"),
             volumetric_efficiency=data.get("volumetric_efficiency"),
+            polynomial=data.get("polynomial"),
         )
 
 

@@ -48,7 +48,10 @@ class SaturationSchema(Schema):
     temperature_dew = Quantity("temperature")
     pressure_bubble = Quantity("pressure")
     pressure_dew = Quantity("pressure")
-    gauge_pressure = fields.Method("_gauge")
+    gauge_pressure = fields.Method("_gauge", metadata={
+        "type": "object",
+        "description": "bubble and dew: the pressures as gauge readings (kPag, psig, barg) "
+                       "against atmospheric_pressure"})
     glide = Quantity("temperature_difference")
     latent_heat = Quantity("specific_enthalpy")
     liquid = fields.Nested(SaturatedPhaseSchema)

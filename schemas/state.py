@@ -32,12 +32,16 @@ class StateRequestSchema(UnitSettingsSchema):
 class StateReportSchema(Schema):
     refrigerant = fields.String()
     state = fields.Nested(StateSchema)
-    phase = fields.Function(lambda r: r.state.phase)
+    phase = fields.Function(lambda r: r.state.phase, metadata={
+        "type": "string", "enum": ["subcooled_liquid", "two_phase", "superheated_vapor",
+                                   "supercritical"]})
     superheat = Quantity("temperature_difference", allow_none=True)
     subcooling = Quantity("temperature_difference", allow_none=True)
     temperature_bubble = Quantity("temperature", allow_none=True)
     temperature_dew = Quantity("temperature", allow_none=True)
-    gauge_pressure = fields.Method("_gauge")
+    gauge_pressure = fields.Method("_gauge", metadata={
+        "x-quantity-kind": "pressure",
+        "description": "the state's pressure as a gauge reading against atmospheric_pressure"})
 
     def _gauge(self, report: object) -> dict:
         from schemas.fields import current_units

@@ -43,6 +43,7 @@ _KINDS: dict[str, tuple[str, str, str]] = {
     "diameter": ("m", "mm", "in"),
     "area": ("m^2", "m^2", "ft^2"),
     "volume": ("m^3", "L", "ft^3"),
+    "room_volume": ("m^3", "m^3", "ft^3"),  # a room's volume: m^3, not the litres of "volume"
     "mass": ("kg", "kg", "lb"),
     "co2_equivalent": ("kg", "t", "t"),
     "volumetric_capacity": ("J/m^3", "kJ/m^3", "Btu/ft^3"),
@@ -121,12 +122,21 @@ def _clean(number: float) -> float:
     return short if abs(short - number) <= 4e-15 * abs(number) else number
 
 
+# letters, digits and the signs of unit algebra; nothing invisible, no control characters
+_UNIT_TEXT = re.compile(r"[A-Za-z0-9 ./*^()_%°µμ²³·-]*")
+
+
 @lru_cache(maxsize=4096)
 def affine_map(unit: str, kind: str) -> AffineMap:
     """The map from ``unit`` to the SI base unit of ``kind``; raises :class:`UnitError`."""
     if kind not in _KINDS:
         raise UnitError(f"unknown quantity kind '{kind}'")
     raw = unit.strip()
+    if not _UNIT_TEXT.fullmatch(raw):
+        raise UnitError(
+            f"{unit!r} holds characters no unit has; for {kind.replace('_', ' ')} use "
+            f"{', '.join(units_for(kind))}"
+        )
     key = raw.lower()
     gauge = False
     if key in _GAUGE_UNITS:
@@ -238,7 +248,11 @@ class UnitContext:
         """``{"value", "unit"}`` for an SI value; non-finite values are written as null."""
         unit = unit or self.output_unit(kind)
         out = self.from_si(value, kind, unit)
-        return {"value": out if math.isfinite(out) else None, "unit": unit}
+        if not math.isfinite(out):
+            return {"value": None, "unit": unit}
+        # 15 significant digits: free of the last-bit
+        # noise of a division (3.7299999999999995 mm is written 3.73 mm)
+        return {"value": float(f"{out:.15g}"), "unit": unit}
 
     def text(self, value: float, kind: str) -> str:
         """A value as text in the caller's units, for error details: ``'-40 degF'``."""

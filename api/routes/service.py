@@ -16,8 +16,17 @@ def _plain(body: dict, status: int = 200) -> Response:
     return Response(json.dumps(body), status=status, mimetype="application/json")
 
 
+def _documented(description: str, **properties: str) -> dict:
+    """OpenAPI responses of a small JSON answer whose fields are all strings."""
+    schema = {"type": "object", "properties": {k: {"type": "string", "description": v}
+                                               for k, v in properties.items()}}
+    return {"200": {"description": description,
+                    "content": {"application/json": {"schema": schema}}}}
+
+
 @blp.route("/health")
 class Health(MethodView):
+    @blp.doc(responses=_documented("the process answers", status="ok"))
     def get(self):
         """Liveness: the process answers."""
         return _plain({"status": "ok"})
@@ -25,6 +34,8 @@ class Health(MethodView):
 
 @blp.route("/ready")
 class Ready(MethodView):
+    @blp.doc(responses={**_documented("ready to serve", status="ready"),
+                        "503": {"description": "still loading the property library"}})
     def get(self):
         """Readiness: the property library is loaded and every catalogue fluid is warm."""
         if not is_warm():
@@ -34,6 +45,9 @@ class Ready(MethodView):
 
 @blp.route("/version")
 class Version(MethodView):
+    @blp.doc(responses=_documented("versions", engine="heatlift <version>",
+                                   property_library="CoolProp <version> (<git revision>)",
+                                   api="v1"))
     def get(self):
         """Engine and property-library versions."""
         return _plain({"engine": f"heatlift {heatlift.__version__}",

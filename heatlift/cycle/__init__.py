@@ -39,6 +39,10 @@ def solve(spec: CycleSpec) -> CycleResult:
     m = model(spec.refrigerant)
     if spec.circuit not in _SOLVERS:
         raise InvalidInput(f"circuit must be one of {', '.join(CIRCUITS)}", field="circuit")
+    if spec.compressor.polynomial is not None:
+        from heatlift.cycle.rated import solve_rated
+
+        return solve_rated(m, spec)
     if spec.circuit == "transcritical":
         return transcritical.solve_sized(m, spec)
     return assemble(m, spec, _SOLVERS[spec.circuit](m, spec))

@@ -96,7 +96,8 @@ def remarks(m: PropertyModel, spec: CycleSpec, solved: PerKilogram) -> list[Rema
              "limit": SIValue(spec.discharge_temperature_limit, "temperature")},
         ))
     for label, state, _ in solved.states:
-        if label.endswith("suction") and state.phase == "two_phase":
+        wet = state.phase == "two_phase" and (state.quality is None or state.quality < 1.0 - 1e-9)
+        if label.endswith("suction") and wet:
             out.append(Remark(
                 "liquid_at_suction",
                 f"the {label.replace('_', ' ')} state is two-phase: liquid reaches the "

@@ -30,6 +30,8 @@ def low_side(m: PropertyModel, spec: CycleSpec) -> LowSide:
     if spec.suction_line_superheat > 0.0:
         after = m.at_pressure_temperature(p_suction, evap_out.temperature
                                           + spec.suction_line_superheat)
+    elif p_suction == p_out:
+        after = evap_out  # no drop and no gain: the same state
     else:
         after = m.at_pressure_enthalpy(p_suction, evap_out.enthalpy)
     p_in = p_out + proc.drop_in_pressure(m, drops.evaporator, p_out, True,

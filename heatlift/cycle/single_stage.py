@@ -48,7 +48,8 @@ def solve(m: PropertyModel, spec: CycleSpec) -> PerKilogram:
     valve_in, suction, _ = liquid_suction_exchange(
         m, liquid, low.after_suction_line, spec.internal_heat_exchanger_effectiveness)
     compression = proc.compress(m, suction, high.p_discharge, spec.compressor)
-    cond_in = m.at_pressure_enthalpy(high.p_condenser_inlet, compression.discharge.enthalpy)
+    cond_in = compression.discharge if high.p_condenser_inlet == high.p_discharge else \
+        m.at_pressure_enthalpy(high.p_condenser_inlet, compression.discharge.enthalpy)
     evap_in = proc.throttle(m, valve_in, low.p_evaporator_inlet)
 
     shell_loss = compression.work - (compression.discharge.enthalpy - suction.enthalpy)

@@ -152,3 +152,32 @@ def test_warnings_in_meta(http):
     message = next(w["message"] for w in r.json()["meta"]["warnings"]
                    if w["code"] == "discharge_temperature")
     assert "degC" in message and "common practice" in message
+
+
+def test_cycle_with_a_supplier_polynomial_matches_the_compressor_endpoint(http):
+    import json
+    from pathlib import Path
+
+    example = json.loads((Path(__file__).parents[2] / "examples" /
+                          "compressor-polynomial.json").read_text())
+    direct = http.post("/v1/compressors/polynomial", example).json()["corrected"]
+    r = http.post("/v1/cycle", {
+        "refrigerant": example["refrigerant"],
+        "evaporating": {"temperature": example["evaporating_temperature"]},
+        "condensing": {"temperature": example["condensing_temperature"]},
+        "superheat": example["superheat"], "subcooling": example["subcooling"],
+        "compressor": {"polynomial": {"basis": example["basis"],
+                                      "coefficients": example["coefficients"],
+                                      "rating": example["rating"]}},
+    })
+    assert r.status_code == 200, r.text
+    body = r.json()
+    assert perf(body, "mass_flow") == pytest.approx(direct["mass_flow"]["value"], rel=1e-6)
+    assert perf(body, "compressor_power") == pytest.approx(direct["power"]["value"], rel=1e-6)
+    assert perf(body, "cooling_capacity") == pytest.approx(direct["capacity"]["value"], rel=1e-6)
+    sized = http.post("/v1/cycle", {**{
+        "refrigerant": "R454B", "evaporating": {"temperature": -10},
+        "condensing": {"temperature": 45}, "cooling_capacity": 5,
+        "compressor": {"polynomial": {"basis": "SI", "coefficients": example["coefficients"],
+                                      "rating": example["rating"]}}}})
+    assert sized.status_code == 422 and "sets the size" in sized.json()["detail"]

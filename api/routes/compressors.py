@@ -1,0 +1,33 @@
+"""POST /v1/compressors/polynomial: a 10-coefficient polynomial, rated and corrected."""
+
+from flask.views import MethodView
+from flask_smorest import Blueprint
+
+from api.context import warn
+from api.output import reply
+from heatlift.compressor import evaluate_polynomial
+from schemas.compressors import (
+    PolynomialReplySchema,
+    PolynomialRequestSchema,
+    PolynomialResultSchema,
+)
+
+ORDER = 70
+blp = Blueprint("compressors", __name__, url_prefix="/v1/compressors",
+                description="Compressor polynomials of AHRI 540 / EN 12900")
+
+
+@blp.route("/polynomial")
+class Polynomial(MethodView):
+    @blp.arguments(PolynomialRequestSchema)
+    @blp.response(200, PolynomialReplySchema)
+    def post(self, args):
+        """Evaluate a compressor polynomial set; correct it to the actual superheat, subcooling."""
+        spec, te = args["spec"], args["evaporating_temperature"]
+        superheat = args["superheat"] if "superheat" in args else spec.rating.superheat_at(te)
+        subcooling = args["subcooling"] if "subcooling" in args else spec.rating.subcooling
+        result = evaluate_polynomial(spec, te, args["condensing_temperature"], superheat,
+                                     subcooling)
+        for remark in result.remarks:
+            warn(remark)
+        return reply(PolynomialResultSchema(), result)

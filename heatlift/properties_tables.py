@@ -1,0 +1,437 @@
+"""Saturation tables of the blends built from their components: built once, loaded by every worker.
+
+A blend of fixed composition (R454B, R448A, ...) is a mixture to the property library, and its
+saturation flashes solve the equality of every component's fugacity in both phases: 0.2 to
+15 ms each, several per cycle. The bubble line, the dew line and the two-phase states between
+them are smooth functions of the pressure and the vapour fraction, so this module fits them
+once with Chebyshev series, in the manner of the superancillary functions the library itself
+uses for pure fluids (Bell and Deiters, AIChE J. 67 (2021) e17192), from the library's own
+flashes at the Chebyshev-Lobatto nodes:
+
+- bubble and dew lines: T, h, s, ln v as series in x = ln p, interval by interval;
+- two-phase states: for each pressure interval, the normalised departures
+  g_y(x, Q) = (y(p, Q) - y_bubble(p)) / (y_dew(p) - y_bubble(p)) for y = T, h, s, v, and the
+  vapour mass fraction q(x, Q), as tensor-product series in x and the molar vapour fraction Q.
+
+Each interval is checked at points between the nodes against fresh flashes and halved until
+every property agrees to ``TOLERANCE`` (relative; the engine promises 1e-6); where the library's
+flashes fail (close to the critical point) the table ends and the engine falls back on the
+flashes themselves. The tables are built by :func:`build` (the command ``heatlift warm-tables``,
+run at install or image build) and written to a JSON file whose name carries the library's
+version and the catalogue's compositions, so a stale table is never used. When no table exists
+the engine works without it: correct, slower.
+
+SI units: Pa, K, J/kg, J/kg/K, m^3/kg.
+"""
+
+from __future__ import annotations
+
+import functools
+import hashlib
+import json
+import math
+import os
+import tempfile
+import threading
+import time
+from collections.abc import Callable, Iterable
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import CoolProp
+import CoolProp.CoolProp as CP
+import numpy as np
+
+FORMAT = 1
+TOLERANCE = 2e-8  # relative agreement required at the check points (50 times below 1e-6)
+NX, NQ = 16, 16  # series degrees in x = ln p and in Q
+WIDTH = 0.7  # initial interval width in ln p
+MAX_HALVINGS = 3
+LOW_TEMPERATURE = 200.0  # [K] the tables start at this dew point (or just above the triple point)
+HIGH_FRACTION = 0.9  # and end at most at this fraction of the critical pressure
+
+_lock = threading.Lock()
+_loaded: dict[str, BlendTable] | None = None
+
+
+# -- Chebyshev helpers --------------------------------------------------------------------------
+
+def _lobatto(n: int) -> np.ndarray:
+    """Chebyshev-Lobatto nodes cos(pi k / n) on [-1, 1] (from +1 down to -1)."""
+    return np.cos(np.pi * np.arange(n + 1) / n)
+
+
+def _coefficients(values: np.ndarray) -> np.ndarray:
+    """Chebyshev coefficients (axis 0) of the values at the Lobatto nodes (axis 0), by the
+    discrete cosine transform c_k = (2 / n) sum_j'' f_j cos(pi j k / n) (halved at k = 0, n)."""
+    n = values.shape[0] - 1
+    k = np.arange(n + 1)
+    transform = np.cos(np.pi * np.outer(k, k) / n)
+    weights = np.ones(n + 1)
+    weights[0] = weights[-1] = 0.5
+    a = (2.0 / n) * transform * weights[None, :]
+    a[0] *= 0.5
+    a[-1] *= 0.5
+    return np.tensordot(a, values, axes=(1, 0))
+
+
+def _basis(t: float, n: int) -> np.ndarray:
+    """(T_0(t) ... T_n(t)) for t in [-1, 1]."""
+    return np.cos(np.arange(n + 1) * math.acos(max(-1.0, min(1.0, t))))
+
+
+def _basis_and_slope(t: float, n: int) -> tuple[np.ndarray, np.ndarray]:
+    """T_k(t) and dT_k/dt = k sin(k theta) / sin(theta), t = cos(theta) (k^2 (+-1)^(k+1) at the
+    ends)."""
+    k = np.arange(n + 1)
+    if t >= 1.0 - 1e-12 or t <= -1.0 + 1e-12:
+        sign = 1.0 if t > 0 else -1.0
+        return sign ** k, k * k * sign ** (k + 1)
+    theta = math.acos(t)
+    return np.cos(k * theta), k * np.sin(k * theta) / math.sin(theta)
+
+
+# -- the table of one blend ---------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Interval:
+    """One pressure interval [a, b] in x = ln p [ln Pa] and its series.
+
+    ``line``: (NX + 1, 8) coefficients of T, h, s, ln v at the bubble line, then at the dew line;
+    ``dome``: (NX + 1, NQ + 1, 5) coefficients of g_T, g_h, g_s, g_v and the mass fraction q.
+    """
+
+    a: float
+    b: float
+    line: np.ndarray
+    dome: np.ndarray
+
+
+class BlendTable:
+    """Fitted saturation of one blend between ``pressure_min`` and ``pressure_max`` [Pa]."""
+
+    def __init__(self, name: str, intervals: list[Interval]) -> None:
+        self.name = name
+        self.intervals = intervals
+        self.x_min, self.x_max = intervals[0].a, intervals[-1].b
+        self.pressure_min, self.pressure_max = math.exp(self.x_min), math.exp(self.x_max)
+        self._edges = [iv.a for iv in intervals]
+
+    def covers(self, pressure: float) -> bool:
+        return self.pressure_min <= pressure <= self.pressure_max
+
+    def _interval(self, x: float) -> Interval:
+        lo, hi = 0, len(self.intervals) - 1
+        while lo < hi:  # the last interval whose start is <= x
+            mid = (lo + hi + 1) // 2
+            if self._edges[mid] <= x:
+                lo = mid
+            else:
+                hi = mid - 1
+        return self.intervals[lo]
+
+    def lines(self, pressure: float) -> tuple[tuple[float, float, float, float],
+                                              tuple[float, float, float, float]]:
+        """((T, h, s, v) at the bubble line, (T, h, s, v) at the dew line) at ``pressure``."""
+        x = math.log(pressure)
+        iv = self._interval(x)
+        values = _basis((2.0 * x - iv.a - iv.b) / (iv.b - iv.a), NX) @ iv.line
+        t_b, h_b, s_b, lv_b, t_d, h_d, s_d, lv_d = values.tolist()
+        return (t_b, h_b, s_b, math.exp(lv_b)), (t_d, h_d, s_d, math.exp(lv_d))
+
+    def two_phase(self, pressure: float, which: int, target: float
+                  ) -> tuple[float, float, float, float, float] | None:
+        """The two-phase state at ``pressure`` whose property number ``which`` (0 T [K], 1 h
+        [J/kg], 2 s [J/kg/K], 4 mass fraction q [1]) equals ``target``: (T, h, s, v, q), found
+        by Newton steps in Q on the series; None if no Q in [0, 1] gives it."""
+        x = math.log(pressure)
+        iv = self._interval(x)
+        xh = (2.0 * x - iv.a - iv.b) / (iv.b - iv.a)
+        bx = _basis(xh, NX)
+        line = bx @ iv.line
+        rows = np.tensordot(bx, iv.dome, axes=(0, 0))  # (NQ + 1, 5)
+        bub, dew = line[:4], line[4:]
+        bub_v, dew_v = math.exp(bub[3]), math.exp(dew[3])
+        if which == 4:
+            goal = target
+        else:
+            goal = (target - bub[which]) / (dew[which] - bub[which])
+        if not -1e-12 <= goal <= 1.0 + 1e-12:
+            return None
+        row = rows[:, which]
+        q_molar = goal
+        for _ in range(30):
+            t = 2.0 * q_molar - 1.0
+            basis, slope = _basis_and_slope(t, NQ)
+            error = float(basis @ row) - goal
+            derivative = 2.0 * float(slope @ row)
+            if derivative <= 0.0:
+                return None
+            step = error / derivative
+            q_molar = min(1.0, max(0.0, q_molar - step))
+            if abs(step) <= 1e-14:
+                break
+        else:
+            return None
+        g = _basis(2.0 * q_molar - 1.0, NQ) @ rows
+        temperature = bub[0] + (dew[0] - bub[0]) * g[0]
+        enthalpy = bub[1] + (dew[1] - bub[1]) * g[1]
+        entropy = bub[2] + (dew[2] - bub[2]) * g[2]
+        volume = bub_v + (dew_v - bub_v) * g[3]
+        return float(temperature), float(enthalpy), float(entropy), float(volume), float(g[4])
+
+    def pressure_at(self, temperature: float, dew: bool) -> float | None:
+        """The pressure [Pa] whose bubble (``dew`` False) or dew temperature is
+        ``temperature`` [K]: Newton steps in x = ln p on the line's series; None outside."""
+        column = 4 if dew else 0
+
+        def line_t(x: float) -> tuple[float, float]:
+            iv = self._interval(x)
+            scale = 2.0 / (iv.b - iv.a)
+            basis, slope = _basis_and_slope((2.0 * x - iv.a - iv.b) * scale / 2.0, NX)
+            coefficients = iv.line[:, column]
+            return float(basis @ coefficients), float(slope @ coefficients) * scale
+
+        t_lo, _ = line_t(self.x_min)
+        t_hi, _ = line_t(self.x_max)
+        if not t_lo <= temperature <= t_hi:
+            return None
+        # T rises with ln p along a saturation line: a secant start between the ends
+        x = self.x_min + (temperature - t_lo) / (t_hi - t_lo) * (self.x_max - self.x_min)
+        for _ in range(40):
+            value, slope = line_t(x)
+            if slope <= 0.0:
+                return None
+            step = (value - temperature) / slope
+            x = min(self.x_max, max(self.x_min, x - step))
+            if abs(step) <= 1e-14:
+                return math.exp(x)
+        return None
+
+    # -- storage -----------------------------------------------------------------------------
+
+    def to_json(self) -> dict[str, Any]:
+        return {"intervals": [{"a": iv.a, "b": iv.b, "line": iv.line.tolist(),
+                               "dome": iv.dome.tolist()} for iv in self.intervals]}
+
+    @classmethod
+    def from_json(cls, name: str, raw: dict[str, Any]) -> BlendTable:
+        return cls(name, [Interval(float(iv["a"]), float(iv["b"]), np.array(iv["line"]),
+                                   np.array(iv["dome"])) for iv in raw["intervals"]])
+
+
+# -- building -----------------------------------------------------------------------------------
+
+def _blends() -> dict[str, tuple[tuple[str, ...], list[float]]]:
+    """Catalogue blends built from components: name -> (library fluids, mole fractions)."""
+    from heatlift.refrigerants import catalogue
+
+    out = {}
+    for name, entry in catalogue().items():
+        fluids = entry.coolprop_fluids
+        if len(fluids) < 2:
+            continue
+        masses = [entry.composition[c] for c in entry.composition]
+        molar = [CP.AbstractState("HEOS", f).molar_mass() for f in fluids]
+        moles = [w / m for w, m in zip(masses, molar, strict=True)]
+        out[name] = (fluids, [n / sum(moles) for n in moles])
+    return out
+
+
+@functools.cache
+def fingerprint() -> str:
+    """What a table depends on: format, fit settings, library version, compositions."""
+    text = json.dumps([FORMAT, TOLERANCE, NX, NQ, WIDTH, LOW_TEMPERATURE, HIGH_FRACTION,
+                       CoolProp.__version__, CoolProp.__gitrevision__,
+                       sorted((k, v[0], v[1]) for k, v in _blends().items())])
+    return hashlib.sha256(text.encode()).hexdigest()[:16]
+
+
+def directory() -> Path:
+    """Where tables live: ``$HEATLIFT_TABLES_DIR``, else ``$XDG_CACHE_HOME/heatlift``, else
+    ``~/.cache/heatlift``."""
+    given = os.environ.get("HEATLIFT_TABLES_DIR")
+    if given:
+        return Path(given)
+    cache = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
+    return Path(cache) / "heatlift"
+
+
+def table_path() -> Path:
+    return directory() / f"blend-saturation-{fingerprint()}.json"
+
+
+class _Flasher:
+    """The library's saturation flashes of one blend: (T, h, s, v, q_mass) at (p, Q molar)."""
+
+    def __init__(self, fluids: tuple[str, ...], fractions: list[float]) -> None:
+        self.state = CP.AbstractState("HEOS", "&".join(fluids))
+        self.state.set_mole_fractions(fractions)
+        self.count = 0
+
+    def __call__(self, pressure: float, q_molar: float) -> list[float]:
+        self.count += 1
+        s = self.state
+        s.update(CP.PQ_INPUTS, pressure, q_molar)
+        mass = q_molar if q_molar in (0.0, 1.0) else s.Qmass()
+        return [s.T(), s.hmass(), s.smass(), 1.0 / s.rhomass(), mass]
+
+
+def _fit_interval(flash: _Flasher, a: float, b: float) -> tuple[Interval, float]:
+    """Series on [a, b] and the worst relative disagreement at the check points."""
+    xs = 0.5 * (a + b) + 0.5 * (b - a) * _lobatto(NX)
+    qs = 0.5 + 0.5 * _lobatto(NQ)
+    line = np.empty((NX + 1, 8))
+    dome = np.empty((NX + 1, NQ + 1, 5))
+    for i, x in enumerate(xs):
+        p = math.exp(x)
+        bub, dew = flash(p, 0.0), flash(p, 1.0)
+        line[i] = [bub[0], bub[1], bub[2], math.log(bub[3]), dew[0], dew[1], dew[2],
+                   math.log(dew[3])]
+        for j, q in enumerate(qs):
+            if q >= 1.0:
+                dome[i, j] = 1.0
+            elif q <= 0.0:
+                dome[i, j] = 0.0
+            else:
+                v = flash(p, float(q))
+                dome[i, j, :4] = [(v[k] - bub[k]) / (dew[k] - bub[k]) for k in range(4)]
+                dome[i, j, 4] = v[4]
+    iv = Interval(a, b, _coefficients(line),
+                  np.moveaxis(_coefficients(np.moveaxis(_coefficients(dome), 1, 0)), 0, 1))
+    table = BlendTable("check", [iv])
+    worst = 0.0
+    for frac in (0.11, 0.37, 0.63, 0.89):
+        x = a + frac * (b - a)
+        p = math.exp(x)
+        ref_b, ref_d = flash(p, 0.0), flash(p, 1.0)
+        fit_b, fit_d = table.lines(p)
+        for ref, fit in ((ref_b, fit_b), (ref_d, fit_d)):
+            worst = max(worst, _disagreement(ref[:4], list(fit)))
+        for q in (0.013, 0.29, 0.61, 0.97):
+            ref = flash(p, q)
+            found = table.two_phase(p, 1, ref[1])
+            if found is None:
+                return iv, math.inf
+            worst = max(worst, _disagreement(ref, list(found)))
+    return iv, worst
+
+
+def _disagreement(ref: list[float], fit: list[float]) -> float:
+    """Largest relative difference over T, h, s, v (and q): h and s relative to their size
+    plus 10 kJ/kg and 10 J/kg/K (their zero is a convention), q absolute."""
+    floors = (0.0, 1e4, 10.0, 0.0, 1.0)
+    worst = 0.0
+    for k, (r, f) in enumerate(zip(ref, fit, strict=False)):
+        worst = max(worst, abs(f - r) / (abs(r) + floors[k]) if k != 4 else abs(f - r))
+    return worst
+
+
+def build_one(name: str, fluids: tuple[str, ...], fractions: list[float],
+              critical_pressure: float, temperature_min: float,
+              log: Callable[[str], None] = lambda _: None) -> BlendTable | None:
+    """Fit the saturation of one blend (see the module's docstring); None if nothing fits."""
+    flash = _Flasher(fluids, fractions)
+    flash.state.update(CP.QT_INPUTS, 1.0, max(LOW_TEMPERATURE, temperature_min + 2.0))
+    x_lo = math.log(flash.state.p())
+    x_hi = math.log(HIGH_FRACTION * critical_pressure)
+    count = max(1, math.ceil((x_hi - x_lo) / WIDTH))
+    pending = [(x_lo + (x_hi - x_lo) * k / count, x_lo + (x_hi - x_lo) * (k + 1) / count, 0)
+               for k in range(count)]
+    intervals: list[Interval] = []
+    while pending:
+        a, b, depth = pending.pop(0)
+        try:
+            iv, worst = _fit_interval(flash, a, b)
+        except ValueError:
+            worst, iv = math.inf, None  # a flash failed: near the critical point
+        if iv is not None and worst <= TOLERANCE:
+            intervals.append(iv)
+            continue
+        if depth < MAX_HALVINGS:
+            mid = 0.5 * (a + b)
+            pending[:0] = [(a, mid, depth + 1), (mid, b, depth + 1)]
+            continue
+        if not intervals:  # nothing fits yet at the low end: start the table higher
+            log(f"  {name}: no table below {math.exp(b) / 1e3:.1f} kPa "
+                f"(disagreement {worst:.1e})")
+            continue
+        log(f"  {name}: the table ends at {math.exp(a) / 1e3:.0f} kPa "
+            f"(disagreement {worst:.1e} above it)")
+        break
+    if not intervals:
+        return None
+    return BlendTable(name, intervals)
+
+
+def build(names: Iterable[str] | None = None, path: Path | None = None,
+          log: Callable[[str], None] = print) -> Path:
+    """Build the tables of the catalogue's blends (or of ``names``) and write them to
+    ``path`` (default :func:`table_path`); returns the path. Takes seconds to a minute."""
+    from heatlift.properties import model
+
+    blends = _blends()
+    wanted = list(names) if names is not None else list(blends)
+    out: dict[str, Any] = {"format": FORMAT, "fingerprint": fingerprint(),
+                           "library": f"CoolProp {CoolProp.__version__}", "blends": {}}
+    for name in wanted:
+        fluids, fractions = blends[name]
+        m = model(name)
+        started = time.perf_counter()
+        table = build_one(name, fluids, fractions, m.critical_pressure,
+                          m.limits.temperature_min, log)
+        if table is None:
+            log(f"{name}: no table")
+            continue
+        out["blends"][name] = table.to_json()
+        log(f"{name}: {len(table.intervals)} intervals, {table.pressure_min / 1e3:.1f} to "
+            f"{table.pressure_max / 1e3:.0f} kPa, {time.perf_counter() - started:.1f} s")
+    target = path or table_path()
+    target.parent.mkdir(parents=True, exist_ok=True)
+    with tempfile.NamedTemporaryFile("w", dir=target.parent, delete=False,
+                                     suffix=".tmp") as handle:
+        json.dump(out, handle)
+    os.chmod(handle.name, 0o644)  # workers may run as another user than the build
+    os.replace(handle.name, target)
+    reset()
+    return target
+
+
+# -- loading ------------------------------------------------------------------------------------
+
+def _load() -> dict[str, BlendTable]:
+    path = table_path()
+    try:
+        raw = json.loads(path.read_text("utf-8"))
+    except (OSError, ValueError):
+        return {}
+    if raw.get("format") != FORMAT or raw.get("fingerprint") != fingerprint():
+        return {}
+    try:
+        return {name: BlendTable.from_json(name, t) for name, t in raw["blends"].items()}
+    except (KeyError, TypeError, ValueError, IndexError):
+        return {}
+
+
+def table_for(name: str) -> BlendTable | None:
+    """The loaded table of blend ``name``, or None (no table file, stale, or not covered)."""
+    global _loaded
+    if _loaded is None:
+        with _lock:
+            if _loaded is None:
+                _loaded = _load()
+    return _loaded.get(name)
+
+
+def preload() -> int:
+    """Read the table file now (a worker's warm-up); returns how many blends it covers."""
+    table_for("")
+    return len(_loaded or {})
+
+
+def reset() -> None:
+    """Forget the loaded tables (the next :func:`table_for` reads the file again)."""
+    global _loaded
+    with _lock:
+        _loaded = None
