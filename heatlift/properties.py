@@ -256,7 +256,12 @@ class PropertyModel:
                                                       strict=True))
             self._remember_saturation(bubble, dew)
             return dew if quality == 1.0 else bubble
-        state = self._update(CP.PQ_INPUTS, pressure, quality)
+        try:
+            state = self._update(CP.PQ_INPUTS, pressure, quality)
+        except PropertyFailure:
+            if not self.is_mixture or quality not in (0.0, 1.0):
+                raise
+            state = self._saturation_by_temperature(pressure, quality)
         if len(cache) >= 512:
             cache.clear()
         if not self.refrigerant.is_blend:
@@ -269,6 +274,30 @@ class PropertyModel:
         result = self._snapshot(state, quality, "two_phase")
         cache[key] = result
         return result
+
+    def _saturation_by_temperature(self, pressure: float, quality: float) -> CP.AbstractState:
+        """A blend's bubble or dew point at ``pressure`` when the library's pressure-quality
+        flash fails (it does near the critical point, e.g. R454B dew at 3.4 MPa): secant steps
+        on the temperature-quality flash, p_sat(T) = p, in ln p (at most 30 steps)."""
+        lim = self.limits
+        t0 = lim.temperature_min + 0.9 * (lim.critical_temperature - lim.temperature_min)
+        t1 = t0 + 1.0
+
+        def error(t: float) -> float:
+            return math.log(self._update(CP.QT_INPUTS, quality, t).p() / pressure)
+
+        f0, f1 = error(t0), error(t1)
+        for _ in range(30):
+            if f1 == f0:
+                break
+            t2 = t1 - f1 * (t1 - t0) / (f1 - f0)
+            t2 = min(max(t2, lim.temperature_min), lim.critical_temperature - 1e-6)
+            t0, f0, t1, f1 = t1, f1, t2, error(t2)
+            if abs(f1) < 1e-13:
+                return self._update(CP.QT_INPUTS, quality, t1)
+        raise PropertyFailure(
+            f"the {'dew' if quality else 'bubble'} point of {self.name} at this pressure could "
+            "not be found (too near the critical point)")
 
     # -- states from a pressure and one more property ------------------------------------------
 
