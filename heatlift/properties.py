@@ -425,10 +425,36 @@ class PropertyModel:
         return properties_tables.table_for(self.name)
 
     def at_temperature_quality(self, temperature: float, quality: float) -> State:
-        """Two-phase state at ``temperature`` [K] and quality [1]."""
+        """Two-phase state at ``temperature`` [K] and vapour mass fraction ``quality`` [1].
+
+        For a blend at 0 < quality < 1 the pressure lies between the dew and the bubble
+        pressure at the temperature: secant steps in p (bracket kept, at most 40) until the
+        state at (p, quality) has the temperature, so that quality stays a mass fraction.
+        """
         self.check_saturation_temperature(temperature)
-        state = self._update(CP.QT_INPUTS, quality, temperature)
-        return self._snapshot(state, quality, "two_phase")
+        if not self.is_mixture or quality in (0.0, 1.0):
+            state = self._update(CP.QT_INPUTS, quality, temperature)
+            return self._snapshot(state, quality, "two_phase")
+        lo = self.saturated_at_temperature(temperature, 1.0).pressure
+        hi = self.saturated_at_temperature(temperature, 0.0).pressure
+        f_lo = self.at_pressure_quality(lo, quality).temperature - temperature
+        f_hi = self.at_pressure_quality(hi, quality).temperature - temperature
+        for _ in range(_MAX_ITERATIONS):
+            if f_hi == f_lo:
+                break
+            p = lo - f_lo * (hi - lo) / (f_hi - f_lo)
+            if not min(lo, hi) < p < max(lo, hi):
+                p = 0.5 * (lo + hi)
+            found = self.at_pressure_quality(p, quality)
+            f = found.temperature - temperature
+            if abs(f) < 1e-9 * temperature:
+                return found
+            if (f < 0) == (f_lo < 0):
+                lo, f_lo = p, f
+            else:
+                hi, f_hi = p, f
+        raise NotConverged(
+            f"the two-phase state of {self.name} at {{t}} did not converge", {"t": _t(temperature)})
 
     def coexisting_phases(self, pressure: float, quality: float,
                           surface_tension: bool = False) -> Coexistence:

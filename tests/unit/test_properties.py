@@ -259,3 +259,13 @@ def test_temperature_and_enthalpy_in_the_liquid_is_refused_with_advice():
 def test_middle_quality_with_enthalpy_needs_pressure_or_temperature():
     with pytest.raises(InvalidInput, match="pressure or the temperature"):
         model("R134a").state(enthalpy=3e5, quality=0.5)
+
+
+def test_blend_temperature_and_quality_keep_quality_a_mass_fraction():
+    # internal consistency: the state at (T, x) and the state at its own (p, x) coincide
+    m = model("R454B")
+    at_t = m.at_temperature_quality(270.0, 0.3)
+    assert at_t.quality == pytest.approx(0.3, abs=1e-12)
+    at_p = m.at_pressure_quality(at_t.pressure, 0.3)
+    assert at_p.temperature == pytest.approx(270.0, abs=1e-6)
+    assert at_p.enthalpy == pytest.approx(at_t.enthalpy, rel=1e-9)
