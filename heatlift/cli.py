@@ -1,4 +1,8 @@
-"""The ``heatlift`` command: ``heatlift serve`` starts the HTTP service under gunicorn."""
+"""The ``heatlift`` command.
+
+``serve`` starts the HTTP service under gunicorn, ``check`` validates a datasheet, ``prepare``
+and ``warm-tables`` build what the engine keeps, once, at install or image build.
+"""
 
 from __future__ import annotations
 
