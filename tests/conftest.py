@@ -32,7 +32,7 @@ def start_server(env: dict[str, str] | None = None, workers: int = 2) -> tuple[s
          "--workers", str(workers)],
         cwd=ROOT, env={**os.environ, **(env or {})}, stdout=log, stderr=subprocess.STDOUT,
     )
-    deadline = time.monotonic() + 60
+    deadline = time.monotonic() + 120
     while time.monotonic() < deadline:
         if proc.poll() is not None:
             raise RuntimeError(f"heatlift serve exited with {proc.returncode}; see {log.name}")
@@ -43,7 +43,7 @@ def start_server(env: dict[str, str] | None = None, workers: int = 2) -> tuple[s
             pass
         time.sleep(0.2)
     proc.terminate()
-    raise RuntimeError("heatlift serve did not become ready within 60 s")
+    raise RuntimeError("heatlift serve did not become ready within 120 s")
 
 
 def stop_server(proc: subprocess.Popen) -> None:
