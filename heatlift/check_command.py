@@ -69,7 +69,7 @@ def add_check_parser(sub: Any) -> None:
 
 
 class UsageError(Exception):
-    pass
+    """A command line or file the check cannot use (exit code 2)."""
 
 
 def _tolerances(items: list[str]) -> dict[str, str]:

@@ -145,8 +145,8 @@ class Client:
         if retry_after is not None:
             try:
                 return min(_MAX_SLEEP, max(0.0, float(retry_after)))
-            except ValueError:
-                pass
+            except ValueError:  # an HTTP date rather than seconds: back off as usual
+                retry_after = None
         return min(_MAX_SLEEP, self.backoff * 2 ** attempt)
 
     def get(self, path: str, **params: Any) -> Any:

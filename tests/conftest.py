@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import contextlib
 import os
 import socket
 import subprocess
@@ -22,7 +23,9 @@ def free_port() -> int:
         return int(sock.getsockname()[1])
 
 
-def start_server(env: dict[str, str] | None = None, workers: int = 2) -> tuple[subprocess.Popen, str]:
+def start_server(
+    env: dict[str, str] | None = None, workers: int = 2
+) -> tuple[subprocess.Popen, str]:
     """Start ``heatlift serve`` (the same command as the README and the image) and wait for it."""
     port = free_port()
     url = f"http://127.0.0.1:{port}"
@@ -36,11 +39,9 @@ def start_server(env: dict[str, str] | None = None, workers: int = 2) -> tuple[s
     while time.monotonic() < deadline:
         if proc.poll() is not None:
             raise RuntimeError(f"heatlift serve exited with {proc.returncode}; see {log.name}")
-        try:
+        with contextlib.suppress(requests.ConnectionError, requests.Timeout):  # not up yet
             if requests.get(url + "/v1/ready", timeout=5).status_code == 200:
                 return proc, url
-        except (requests.ConnectionError, requests.Timeout):
-            pass
         time.sleep(0.2)
     proc.terminate()
     raise RuntimeError("heatlift serve did not become ready within 120 s")
@@ -63,7 +64,7 @@ def server() -> Iterator[str]:
 
 
 @pytest.fixture(scope="session")
-def http(server: str) -> Iterator["Client"]:
+def http(server: str) -> Iterator[Client]:
     with requests.Session() as session:
         yield Client(server, session)
 

@@ -148,8 +148,8 @@ def log_entries(url: str) -> list[dict[str, Any]]:
         if line.startswith("{"):
             try:
                 found.append(json.loads(line))
-            except ValueError:
-                pass
+            except ValueError:  # a line that only starts like JSON is not a log record
+                continue
     return found
 
 

@@ -131,7 +131,7 @@ class _Flaky(BaseHTTPRequestHandler):
         self.wfile.write(body)
 
     def log_message(self, *_: object) -> None:
-        pass
+        """Keep the stub server's request lines out of the test output."""
 
 
 @pytest.fixture
