@@ -11,6 +11,7 @@ from __future__ import annotations
 import csv
 import io
 import time
+from collections.abc import Iterable
 from typing import Any
 
 from flask import Response, g, json, request
@@ -18,6 +19,7 @@ from marshmallow import Schema
 from werkzeug.exceptions import UnprocessableEntity
 
 import heatlift
+from heatlift.errors import Remark
 from heatlift.properties import LIBRARY_VERSION
 from schemas.fields import current_units
 
@@ -48,13 +50,20 @@ def meta() -> dict[str, Any]:
 
 
 def reply(
-    schema: Schema, result: Any, rows_key: str | None = None, wrap: str | None = None
+    schema: Schema,
+    result: Any,
+    rows_key: str | None = None,
+    wrap: str | None = None,
+    remarks: Iterable[Remark] = (),
 ) -> Response:
     """Dump ``result`` with ``schema`` in the caller's units and answer in the asked format.
+
+    ``remarks`` (the engine result's reviewer remarks) go to ``meta.warnings``.
 
     ``wrap`` puts a dumped list under that key (and makes it the CSV rows); ``rows_key`` names
     the list inside the result that becomes the CSV rows.
     """
+    g.setdefault("remarks", []).extend(remarks)
     body = schema.dump(result)
     if wrap:
         body, rows_key = {wrap: body}, wrap

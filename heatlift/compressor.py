@@ -386,13 +386,14 @@ def evaluate_polynomial(
     spec: PolynomialSpec,
     evaporating_dew: float,
     condensing_dew: float,
-    superheat: float,
-    subcooling: float,
+    superheat: float | None = None,
+    subcooling: float | None = None,
 ) -> PolynomialResult:
     """Evaluate ``spec`` at the dew points [K] and correct it to ``superheat``, ``subcooling`` [K].
 
-    Returns the figures at the rating conditions (``rating``) and at the actual ones
-    (``corrected``), all SI (W, kg/s, A). See the module docstring for the conversion.
+    ``None`` for ``superheat`` or ``subcooling`` means the rating's own. Returns the figures
+    at the rating conditions (``rating``) and at the actual ones (``corrected``), all SI
+    (W, kg/s, A). See the module docstring for the conversion.
     """
     if spec.power_correction not in POWER_CORRECTIONS:
         raise InvalidInput(f"power_correction must be one of {', '.join(POWER_CORRECTIONS)}",
@@ -404,6 +405,10 @@ def evaluate_polynomial(
     te, tc = evaporating_dew, condensing_dew
     rated = operating_point(spec.refrigerant, te, tc, spec.rating.superheat_at(te),
                             spec.rating.subcooling)
+    if superheat is None:
+        superheat = spec.rating.superheat_at(te)
+    if subcooling is None:
+        subcooling = spec.rating.subcooling
     actual = operating_point(spec.refrigerant, te, tc, superheat, subcooling)
     raw = polynomial_values(spec, te, tc)
 

@@ -3,7 +3,6 @@
 from flask.views import MethodView
 from flask_smorest import Blueprint
 
-from api.context import warn
 from api.output import reply
 from heatlift import charge
 from schemas.charge import ChargeReplySchema, ChargeRequestSchema, ChargeResultSchema
@@ -20,6 +19,4 @@ class Charge(MethodView):
     def post(self, spec: charge.ChargeSpec):
         """Charge of lines, heat exchangers and vessels; CO2-equivalent; allowed charge."""
         result = charge.estimate(spec)
-        for remark in result.remarks:
-            warn(remark)
-        return reply(ChargeResultSchema(), result)
+        return reply(ChargeResultSchema(), result, remarks=result.remarks)

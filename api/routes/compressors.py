@@ -3,7 +3,6 @@
 from flask.views import MethodView
 from flask_smorest import Blueprint
 
-from api.context import warn
 from api.output import reply
 from heatlift.compressor import evaluate_polynomial
 from schemas.compressors import (
@@ -23,11 +22,7 @@ class Polynomial(MethodView):
     @blp.response(200, PolynomialReplySchema)
     def post(self, args):
         """Evaluate a compressor polynomial set; correct it to the actual superheat, subcooling."""
-        spec, te = args["spec"], args["evaporating_temperature"]
-        superheat = args["superheat"] if "superheat" in args else spec.rating.superheat_at(te)
-        subcooling = args["subcooling"] if "subcooling" in args else spec.rating.subcooling
-        result = evaluate_polynomial(spec, te, args["condensing_temperature"], superheat,
-                                     subcooling)
-        for remark in result.remarks:
-            warn(remark)
-        return reply(PolynomialResultSchema(), result)
+        result = evaluate_polynomial(args["spec"], args["evaporating_temperature"],
+                                     args["condensing_temperature"], args.get("superheat"),
+                                     args.get("subcooling"))
+        return reply(PolynomialResultSchema(), result, remarks=result.remarks)

@@ -4,7 +4,6 @@ from flask import current_app
 from flask.views import MethodView
 from flask_smorest import Blueprint
 
-from api.context import warn
 from api.output import reply
 from api.sweep import run_sweep
 from heatlift import cycle
@@ -18,9 +17,7 @@ blp = Blueprint("cycle", __name__, url_prefix="/v1/cycle",
 
 def _solved(spec: cycle.CycleSpec):
     result = cycle.solve(spec)
-    for remark in result.remarks:
-        warn(remark)
-    return reply(CycleResultSchema(), result)
+    return reply(CycleResultSchema(), result, remarks=result.remarks)
 
 
 @blp.route("")

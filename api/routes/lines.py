@@ -3,7 +3,6 @@
 from flask.views import MethodView
 from flask_smorest import Blueprint
 
-from api.context import warn
 from api.output import reply
 from heatlift.lines import query, tubes
 from heatlift.lines.hydraulics import FITTING_TYPES
@@ -34,9 +33,7 @@ class Size(MethodView):
     def post(self, line_query):
         """Every catalogue size judged; the smallest that meets every limit recommended."""
         result = query.size_query(line_query)
-        for remark in result.remarks:
-            warn(remark)
-        return reply(SizingResultSchema(), result, rows_key="candidates")
+        return reply(SizingResultSchema(), result, rows_key="candidates", remarks=result.remarks)
 
 
 @blp.route("/check")
@@ -46,9 +43,7 @@ class Check(MethodView):
     def post(self, line_query):
         """The same figures for one given size (its catalogue label)."""
         result = query.check_query(line_query)
-        for remark in result.remarks:
-            warn(remark)
-        return reply(CheckResultSchema(), result)
+        return reply(CheckResultSchema(), result, remarks=result.remarks)
 
 
 @blp.route("/tubes")
