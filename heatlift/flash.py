@@ -19,6 +19,9 @@ raises :class:`FlashFailure` when it does not converge or leaves the branch it w
 (the caller then falls back on the library's own flash). SI units throughout: Pa, K, kg/m^3,
 J/kg, J/kg/K.
 
+This module is the numerical kernel of the property layer: only heatlift/properties.py imports
+it, and the rest of the engine reaches the property library through properties.py alone.
+
 Source: the method is the standard Newton-Raphson solution in (T, rho) of an explicit
 Helmholtz-energy equation of state, as in Lemmon and Span's and the library's own
 ``HSU_P_flash_singlephase_Newton``; see Bell, Wronski, Quoilin and Lemon, Ind. Eng. Chem. Res.
