@@ -70,7 +70,13 @@ def raw_depth_exceeds(data: bytes, limit: int) -> bool:
 def _scan(data: bytes, limit: int) -> str | None:
     """"depth" for a body nested deeper than ``limit``, "surrogate" for a string holding a
     lone UTF-16 surrogate escape (``"\\ud800"``: valid JSON text, but no character, so that
-    no reply could ever write it back), None for neither."""
+    no reply could ever write it back), None for neither.
+
+    Most bodies are settled without the token loop: with no more brackets in the whole text
+    (strings included) than the limit, none can be nested deeper, and with no ``\\u`` in it no
+    string holds a surrogate escape."""
+    if b"\\u" not in data and data.count(b"[") + data.count(b"{") <= limit:
+        return None
     depth = 0
     for match in _TOKENS.finditer(data):
         token = match.group()

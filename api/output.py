@@ -9,6 +9,7 @@ so that a spreadsheet's web-query function can drop it in a cell.
 from __future__ import annotations
 
 import csv
+import functools
 import io
 import time
 from collections.abc import Iterable
@@ -19,8 +20,10 @@ from marshmallow import Schema
 from werkzeug.exceptions import UnprocessableEntity
 
 import heatlift
+from api.encoding import to_json
 from heatlift.errors import Remark
 from heatlift.properties import LIBRARY_VERSION
+from schemas.dumping import dump
 from schemas.fields import current_units
 
 FORMATS = ("json", "csv")
@@ -49,14 +52,24 @@ def meta() -> dict[str, Any]:
     }
 
 
+@functools.cache
+def schema_instance(schema_class: type[Schema]) -> Schema:
+    """One instance per schema class for the process: building a schema deep-copies every
+    declared field and its nested schemas (most of a small request's cost when done per
+    request); dumping and loading keep no state on the instance (units come from a context
+    variable), so one instance serves every request."""
+    return schema_class()
+
+
 def reply(
-    schema: Schema,
+    schema: type[Schema] | Schema,
     result: Any,
     rows_key: str | None = None,
     wrap: str | None = None,
     remarks: Iterable[Remark] = (),
 ) -> Response:
-    """Dump ``result`` with ``schema`` in the caller's units and answer in the asked format.
+    """Dump ``result`` with ``schema`` (a class: its shared instance) in the caller's units and
+    answer in the asked format.
 
     ``remarks`` (the engine result's reviewer remarks) go to ``meta.warnings``.
 
@@ -64,7 +77,9 @@ def reply(
     the list inside the result that becomes the CSV rows.
     """
     g.setdefault("remarks", []).extend(remarks)
-    body = schema.dump(result)
+    if isinstance(schema, type):
+        schema = schema_instance(schema)
+    body = dump(schema, result)
     if wrap:
         body, rows_key = {wrap: body}, wrap
     fmt = request.args.get("format", "json").lower()
@@ -76,7 +91,7 @@ def reply(
     if fmt == "csv":
         return csv_response(body, rows_key)
     body["meta"] = meta()
-    return Response(json.dumps(body), mimetype="application/json")
+    return Response(to_json(body), mimetype="application/json")
 
 
 def _select(body: dict[str, Any], path: str) -> Response:

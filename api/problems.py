@@ -9,10 +9,11 @@ from __future__ import annotations
 import logging
 from typing import Any
 
-from flask import Flask, Response, json
+from flask import Flask, Response
 from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
+from api.encoding import to_json
 from api.metrics import count_failure
 from heatlift.errors import HeatliftError, SIValue
 from schemas.fields import current_units
@@ -40,7 +41,7 @@ def problem(
         body["errors"] = errors
     if extra:
         body.update(extra)
-    response = Response(json.dumps(body), status=status, mimetype="application/problem+json")
+    response = Response(to_json(body), status=status, mimetype="application/problem+json")
     return response
 
 

@@ -12,10 +12,12 @@ from typing import Any
 
 from marshmallow import ValidationError
 
+from api.output import schema_instance
 from api.problems import _flatten
 from heatlift import cycle
 from heatlift.errors import HeatliftError
 from schemas.cycle import CycleRequestSchema, CycleResultSchema
+from schemas.dumping import dump
 from schemas.fields import current_units
 
 
@@ -35,7 +37,7 @@ def _set_path(body: dict, path: str, value: Any) -> None:
 def run_sweep(body: dict, vary: str, values: list[Any]) -> dict[str, Any]:
     ctx = current_units()
     rows = []
-    schema = CycleRequestSchema()
+    schema = schema_instance(CycleRequestSchema)
     for value in values:
         request = copy.deepcopy(body["cycle"])
         _set_path(request, vary, value)
@@ -51,7 +53,7 @@ def run_sweep(body: dict, vary: str, values: list[Any]) -> dict[str, Any]:
                 "status": exc.status, "title": exc.title,
                 "detail": exc.render(lambda v: ctx.text(v.value, v.kind))}})
             continue
-        dumped = CycleResultSchema().dump(result)
+        dumped = dump(schema_instance(CycleResultSchema), result)
         dumped["warnings"] = [r.render(lambda v: ctx.text(v.value, v.kind))
                               for r in result.remarks]
         rows.append({"value": value, "result": dumped, "error": None})

@@ -30,6 +30,7 @@ Helmholtz-energy equation of state, as in Lemmon and Span's and the library's ow
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 import CoolProp.CoolProp as CP
@@ -39,143 +40,189 @@ MAX_STEPS = 30
 # times below the 1e-6 relative agreement the engine promises
 P_TOL = 1e-12
 Y_TOL = 1e-12
-# or when the next Newton step would move T and rho by less than this, relative (with the
-# quadratic convergence of Newton's method the state is then that close to the root; a
-# liquid's pressure reacts so strongly to its density that the pressure criterion alone
-# would ask for a density exact to 1e-14)
-STEP_TOL = 1e-11
+# or when the next Newton step would move T and rho by less than this, relative: with the
+# quadratic convergence of Newton's method the state evaluated is then that close to the root
+# (a thousand times below the promised 1e-6; a liquid's pressure reacts so strongly to its
+# density that the pressure criterion alone would ask for a density exact to 1e-14)
+STEP_TOL = 1e-9
 Y_FLOOR = {"enthalpy": 1e4, "entropy": 10.0}
 
 _DT = CP.DmassT_INPUTS
+
+Fluid = tuple[float, float, float, float]
 
 
 class FlashFailure(ValueError):
     """The Newton steps did not converge on the requested branch."""
 
 
-def _evaluate(state: CP.AbstractState, rho: float, temperature: float) -> None:
-    try:
-        state.update(_DT, rho, temperature)
-    except ValueError as exc:
-        raise FlashFailure(str(exc)) from exc
-
-
-def _jacobian(state: CP.AbstractState, rho: float, temperature: float, r_mass: float,
-              molar_mass: float) -> tuple[float, float, float]:
-    """(dp/drho|T [Pa m^3/kg], dp/dT|rho [Pa/K], cv [J/kg/K]) at the state just evaluated,
-    from the reduced residual Helmholtz energy a^r(tau, delta) the evaluation has already
-    computed (cheaper than the library's generic partial derivatives):
-
-        dp/drho|T = R T (1 + 2 delta a^r_d + delta^2 a^r_dd),
-        dp/dT|rho = rho R (1 + delta a^r_d - delta tau a^r_dt),
-
-    with R the specific gas constant [J/kg/K] (Lemmon, Span and Wagner's tabulated relations;
-    Span, Multiparameter Equations of State, 2000, table 3.3).
-    """
-    delta, tau = state.delta(), state.tau()
-    ad = state.dalphar_dDelta()
-    dp_drho = r_mass * temperature * (1.0 + delta * (2.0 * ad + delta * state.d2alphar_dDelta2()))
-    dp_dt = rho * r_mass * (1.0 + delta * (ad - tau * state.d2alphar_dDelta_dTau()))
-    return dp_drho, dp_dt, state.cvmass()
-
-
-def constants(state: CP.AbstractState) -> tuple[float, float]:
-    """(specific gas constant [J/kg/K], molar mass [kg/mol]) of the state's fluid."""
+def constants(state: CP.AbstractState) -> Fluid:
+    """(specific gas constant R [J/kg/K], molar mass M [kg/mol], reducing density
+    rho_r [kg/m^3], reducing temperature T_r [K]) of the state's fluid (for a mixture: of its
+    fixed composition), so that delta = rho / rho_r and tau = T_r / T."""
     molar_mass = state.molar_mass()
-    return state.gas_constant() / molar_mass, molar_mass
+    return (state.gas_constant() / molar_mass, molar_mass,
+            state.rhomolar_reducing() * molar_mass, state.T_reducing())
+
+
+def _is_at(state: CP.AbstractState, temperature: float, rho: float, phase: Any) -> bool:
+    """Whether ``state`` was last evaluated at exactly (``temperature``, ``rho``) in ``phase``:
+    a start taken from the previous solve (compression: the isentropic state, then the real
+    one at the same pressure) then needs no evaluation of its own."""
+    try:
+        return bool(state.T() == temperature and state.rhomass() == rho
+                    and state.phase() == phase)
+    except ValueError:
+        return False
 
 
 def density_at(
     state: CP.AbstractState, pressure: float, temperature: float, rho: float, phase: Any,
-    branch: str, fluid: tuple[float, float],
+    branch: str, fluid: Fluid,
 ) -> None:
     """The density at ``pressure`` [Pa] and ``temperature`` [K] from the start ``rho``.
 
-    Newton on p(T, rho) = p*: rho <- rho - (p - p*) / (dp/drho)_T, each step limited to half
-    the density. ``phase`` is the library's phase index to impose; ``branch`` is ``"vapor"``
-    (a state between the spinodals, where dp/drho <= 0, is left towards lower density),
-    ``"liquid"`` or ``"any"``; ``fluid`` is :func:`constants` of the state.
+    Newton on ln p(T, rho) = ln p* in ln rho (exact in one step for an ideal gas, and so close
+    to linear for a vapour; plain Newton in rho on the liquid branch, where ln p is far from
+    linear), each step limited to half the density or a factor of 1.65, with p and its slope from
+    the reduced residual Helmholtz energy a^r(tau, delta) (Span, Multiparameter Equations of
+    State, 2000, table 3.3):
+
+        p = rho R T (1 + delta a^r_d),   dp/drho|T = R T (1 + 2 delta a^r_d + delta^2 a^r_dd),
+        d ln rho = -(ln p - ln p*) p / (rho dp/drho).
+
+    ``phase`` is the library's phase index to impose; ``branch`` is ``"vapor"`` (a state
+    between the spinodals, where dp/drho <= 0, is left towards lower density), ``"liquid"``
+    or ``"any"``; ``fluid`` is :func:`constants` of the state.
     """
-    r_mass, molar_mass = fluid
+    r_mass, _, rho_r, _ = fluid
+    rt = r_mass * temperature
+    tolerance = P_TOL * pressure
+    log_target = math.log(pressure)
+    liquid = branch == "liquid"
+    update, ad_of, add_of = state.update, state.dalphar_dDelta, state.d2alphar_dDelta2
     state.specify_phase(phase)
     try:
         for _ in range(MAX_STEPS):
-            _evaluate(state, rho, temperature)
-            error = state.p() - pressure
-            delta = state.delta()
-            slope = r_mass * temperature * (1.0 + delta * (2.0 * state.dalphar_dDelta()
-                                                           + delta * state.d2alphar_dDelta2()))
-            if abs(error) <= P_TOL * pressure:
-                if slope <= 0.0:
+            update(_DT, rho, temperature)
+            delta = rho / rho_r
+            ad = ad_of()
+            p = rho * rt * (1.0 + delta * ad)
+            slope = rt * (1.0 + delta * (2.0 * ad + delta * add_of()))
+            if slope <= 0.0 or p <= 0.0:
+                if abs(p - pressure) <= tolerance:
                     raise FlashFailure("converged inside the spinodal")
-                return
-            if slope <= 0.0:
                 rho *= 0.7 if branch == "vapor" else 1.1
                 continue
-            step = error / slope
-            if abs(step) <= STEP_TOL * rho:
+            if liquid:  # p is far from linear in ln rho for a liquid: plain Newton
+                step = (p - pressure) / (rho * slope)
+            else:
+                step = (math.log(p) - log_target) * p / (rho * slope)
+            if abs(p - pressure) <= tolerance or abs(step) <= STEP_TOL:
                 return  # the state evaluated is within STEP_TOL of the root
-            rho -= max(-0.5 * rho, min(0.5 * rho, step))
+            step = max(-0.5, min(0.5, step))
+            rho *= (1.0 - step) if liquid else math.exp(-step)
         raise FlashFailure(f"no density found at {pressure} Pa and {temperature} K")
+    except ValueError as exc:
+        if isinstance(exc, FlashFailure):
+            raise
+        raise FlashFailure(str(exc)) from exc
     finally:
         state.unspecify_phase()
 
 
 def pressure_and(
     state: CP.AbstractState, pressure: float, target: float, which: str, temperature: float,
-    rho: float, phase: Any, fluid: tuple[float, float],
+    rho: float, phase: Any, fluid: Fluid,
 ) -> None:
     """The state at ``pressure`` [Pa] whose ``which`` (``"enthalpy"`` [J/kg] or ``"entropy"``
     [J/kg/K]) equals ``target``, from the start (``temperature`` [K], ``rho`` [kg/m^3]).
 
-    Newton on F(T, rho) = (p - p*, y - y*) = 0 with the Jacobian of the equation of state,
-    J = [[dp/dT, dp/drho], [dy/dT, dy/drho]], where by dh = T ds + dp / rho and the Maxwell
-    relation (ds/drho)_T = -(dp/dT)_rho / rho^2:
+    Newton on F = (ln p - ln p*, y - y*) = 0 in (ln T, ln rho): for an ideal gas ln p and s
+    are linear in these, so the steps along an isobar from the saturated vapour are nearly
+    exact. For a liquid (``phase`` the library's liquid index) ln p is far from linear in
+    ln rho, and F = (p / p* - 1, y - y*) in (T, rho) is used instead. The Jacobian comes from
+    the equation of state's derivatives,
+
+        dp/drho|T = R T (1 + 2 delta a^r_d + delta^2 a^r_dd),
+        dp/dT|rho = rho R (1 + delta a^r_d - delta tau a^r_dt),
+
+    and by dh = T ds + dp / rho and the Maxwell relation (ds/drho)_T = -(dp/dT)_rho / rho^2:
 
         dh/dT|rho = cv + (dp/dT) / rho,   dh/drho|T = (dp/drho - T (dp/dT) / rho) / rho,
-        ds/dT|rho = cv / T,               ds/drho|T = -(dp/dT) / rho^2.
+        ds/dT|rho = cv / T,               ds/drho|T = -(dp/dT) / rho^2,
 
-    A step is shortened so that T moves by at most 30 % and rho by at most 50 %; a
-    mechanically unstable state (dp/drho <= 0) ends the attempt.
+    each times T or rho for relative steps. A step is shortened so that T moves by at most
+    30 % and rho by at most 50 % (in the logarithms: 0.3 and 0.5); a mechanically unstable
+    state (dp/drho <= 0) ends the attempt.
     """
     enthalpy = which == "enthalpy"
     tolerance = Y_TOL * (abs(target) + Y_FLOOR[which])
     p_tolerance = P_TOL * pressure
-    r_mass, molar_mass = fluid
+    log_target = math.log(pressure)
+    liquid = phase == CP.iphase_liquid
+    r_mass, _, rho_r, t_r = fluid
+    update, y_of = state.update, (state.hmass if enthalpy else state.smass)
+    ad_of, add_of, adt_of = state.dalphar_dDelta, state.d2alphar_dDelta2, \
+        state.d2alphar_dDelta_dTau
+    cv_of = state.cvmass
+    evaluated = _is_at(state, temperature, rho, phase)  # the start is the state's last evaluation
     state.specify_phase(phase)
     try:
         for _ in range(MAX_STEPS):
-            _evaluate(state, rho, temperature)
-            f1 = state.p() - pressure
-            f2 = (state.hmass() if enthalpy else state.smass()) - target
-            b, a, cv = _jacobian(state, rho, temperature, r_mass, molar_mass)
-            if abs(f1) <= p_tolerance and abs(f2) <= tolerance:
-                if b <= 0.0:
-                    raise FlashFailure("converged inside the spinodal")
-                return
-            if b <= 0.0:
+            if evaluated:
+                evaluated = False
+            else:
+                update(_DT, rho, temperature)
+            delta = rho / rho_r
+            ad = ad_of()
+            rt = r_mass * temperature
+            p = rho * rt * (1.0 + delta * ad)
+            f2 = y_of() - target
+            b = rt * (1.0 + delta * (2.0 * ad + delta * add_of()))  # dp/drho
+            if b <= 0.0 or p <= 0.0:
                 raise FlashFailure("mechanically unstable state")
+            if abs(p - pressure) <= p_tolerance and abs(f2) <= tolerance:
+                return
+            a = rho * r_mass * (1.0 + delta * (ad - t_r / temperature * adt_of()))  # dp/dT
+            cv = cv_of()
             if enthalpy:
                 c = cv + a / rho
                 d = (b - temperature * a / rho) / rho
             else:
                 c = cv / temperature
                 d = -a / (rho * rho)
-            det = a * d - b * c
+            # relative steps (dT / T, drho / rho): for a vapour the Jacobian in (ln T, ln rho)
+            # of (ln p, y); for a liquid, whose ln p is far from linear, of (p / p* - 1, y)
+            if liquid:
+                f1, row = p / pressure - 1.0, 1.0 / pressure
+            else:
+                f1, row = math.log(p) - log_target, 1.0 / p
+            j11, j12 = temperature * a * row, rho * b * row
+            j21, j22 = temperature * c, rho * d
+            det = j11 * j22 - j12 * j21
             if det == 0.0:
                 raise FlashFailure("singular Jacobian")
-            d_t = (f1 * d - b * f2) / det
-            d_rho = (a * f2 - c * f1) / det
-            if abs(d_t) <= STEP_TOL * temperature and abs(d_rho) <= STEP_TOL * rho:
+            d_t = (f1 * j22 - j12 * f2) / det
+            d_rho = (j11 * f2 - j21 * f1) / det
+            if abs(d_t) <= STEP_TOL and abs(d_rho) <= STEP_TOL:
                 return  # the state evaluated is within STEP_TOL of the root
             scale = 1.0
-            if abs(d_t) > 0.3 * temperature:
-                scale = 0.3 * temperature / abs(d_t)
-            if abs(d_rho) > 0.5 * rho:
-                scale = min(scale, 0.5 * rho / abs(d_rho))
-            temperature -= scale * d_t
-            rho -= scale * d_rho
+            if abs(d_t) > 0.3:
+                scale = 0.3 / abs(d_t)
+            if abs(d_rho) > 0.5:
+                scale = min(scale, 0.5 / abs(d_rho))
+            if liquid:
+                temperature *= 1.0 - scale * d_t
+                rho *= 1.0 - scale * d_rho
+            else:
+                temperature *= math.exp(-scale * d_t)
+                rho *= math.exp(-scale * d_rho)
         raise FlashFailure(f"no state found at {pressure} Pa with that {which}")
+    except ValueError as exc:
+        if isinstance(exc, FlashFailure):
+            raise
+        raise FlashFailure(str(exc)) from exc
     finally:
         state.unspecify_phase()
 

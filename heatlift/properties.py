@@ -16,12 +16,13 @@ All values are SI base units: K, Pa, J/kg, J/kg/K, kg/m^3.
 
 from __future__ import annotations
 
+import contextlib
 import math
 import threading
 from collections.abc import Callable
 from dataclasses import dataclass
 from functools import cache
-from typing import Any
+from typing import Any, NamedTuple
 
 import CoolProp
 import CoolProp.CoolProp as CP
@@ -40,9 +41,12 @@ _KINDS = {"temperature": "temperature", "pressure": "pressure", "enthalpy": "spe
           "entropy": "specific_entropy", "quality": "dimensionless"}
 
 
-@dataclass(frozen=True)
-class State:
-    """A thermodynamic state [Pa, K, J/kg, J/kg/K, kg/m^3]; ``quality`` only when two-phase."""
+class State(NamedTuple):
+    """A thermodynamic state [Pa, K, J/kg, J/kg/K, kg/m^3]; ``quality`` only when two-phase.
+
+    Immutable like the engine's result dataclasses, but a named tuple: a cycle builds a dozen
+    of them, and a named tuple is built in a fifth of the time of a frozen dataclass.
+    """
 
     pressure: float
     temperature: float
@@ -88,8 +92,11 @@ class PropertyModel:
             moles = [w / m for w, m in zip(masses, molar, strict=True)]
             self._mole_fractions = [n / sum(moles) for n in moles]
         self.limits = self._find_limits()
-        self._constants = flash.constants(self._state())  # (R [J/kg/K], M [kg/mol])
-        self._t_max = self._state().Tmax()
+        # read on every evaluation: plain attributes
+        self.critical_temperature = self.limits.critical_temperature
+        self.critical_pressure = self.limits.critical_pressure
+        self._constants = flash.constants(self._state())  # (R, M, rho_r, T_r)
+        self._t_max, self._p_max = self._state().Tmax(), self._state().pmax()
         # a pure fluid's bubble and dew coincide; the library's pseudo-pure blends (R404A,
         # R407C, R410A, R507A) keep a glide between separate bubble and dew lines
         self._one_temperature = refrigerant.kind == "pure"
@@ -106,7 +113,15 @@ class PropertyModel:
         return state
 
     def _update(self, pair: Any, a: float, b: float, phase: Any = None) -> CP.AbstractState:
+        """The library's flash of the thread's state (``phase`` imposed if given).
+
+        A blend's state gets its phase envelope traced before its first general flash: the
+        library's saturation flashes of a mixture start from the envelope, and without it they
+        fail near the critical point (R454B's dew line above about 4.7 MPa). Traced on first
+        need, per thread, not at start-up: the tables answer most saturation questions."""
         state = self._state()
+        if self.is_mixture and not getattr(self._local, "enveloped", False):
+            self._trace_envelope(state)
         try:
             if phase is not None:
                 state.specify_phase(phase)
@@ -131,15 +146,28 @@ class PropertyModel:
             phase=phase,
         )
 
+    def _trace_envelope(self, state: CP.AbstractState) -> None:
+        """Trace the phase envelope on this thread's state (once; where the library cannot
+        trace it, the flashes start without it)."""
+        self._local.enveloped = True
+        with contextlib.suppress(ValueError):
+            state.build_phase_envelope("")
+
     # -- limits ---------------------------------------------------------------------------------
 
     def _find_limits(self) -> Limits:
         state = self._state()
+        table = self._table()
+        if table is not None and table.limits is not None:
+            # found when the table was built (below), read at start-up instead of tracing the
+            # phase envelope in every process
+            return Limits(*table.limits)
         if self.is_mixture:
             # the critical point of the fixed composition: on the traced phase envelope, the
             # point where the incipient phase's density meets the bulk phase's (finding it by
             # the library's critical-point search is slower by orders and less robust)
             state.build_phase_envelope("")
+            self._local.enveloped = True
             env = state.get_phase_envelope_data()
             i = min(range(len(env.T)), key=lambda k: abs(env.rhomolar_vap[k] - env.rhomolar_liq[k]))
             t_crit, p_crit = env.T[i], env.p[i]
@@ -151,14 +179,6 @@ class PropertyModel:
             t_min = max(state.Ttriple(), state.Tmin())
         state.update(CP.QT_INPUTS, 0.0, t_min)
         return Limits(t_min, state.p(), t_crit, p_crit)
-
-    @property
-    def critical_temperature(self) -> float:
-        return self.limits.critical_temperature
-
-    @property
-    def critical_pressure(self) -> float:
-        return self.limits.critical_pressure
 
     def normal_boiling_point(self) -> float | None:
         """Bubble-point temperature at 101.325 kPa [K] (for a blend: the bubble point).
@@ -204,7 +224,17 @@ class PropertyModel:
             if found is not None:
                 return self.saturated_at_pressure(found, quality)
         state = self._update(CP.QT_INPUTS, quality, temperature)
-        if self.is_mixture and state.p() >= self.critical_pressure:
+        if not self.is_mixture:
+            if self._one_temperature:
+                # both coexisting phases at once; remembered by pressure like the pressure
+                # flashes
+                bubble, dew = _coexisting(state)
+                self._remember_saturation(bubble, dew)
+                return dew if quality == 1.0 else bubble
+            point = self._snapshot(state, quality, "two_phase")
+            self._remember_saturation(point)
+            return point
+        if state.p() >= self.critical_pressure:
             # with a phase envelope built on the state, the library's flash can land on the
             # envelope's far branch (R454B dew point at 2.3 degC: 14.3 MPa, not 787 kPa):
             # the same flash on a state without an envelope
@@ -218,11 +248,6 @@ class PropertyModel:
                     f"the equation of state of {self.name} could not be evaluated here",
                 ) from exc
             state = plain
-        if self._one_temperature:
-            # both coexisting phases at once; remembered by pressure like the pressure flashes
-            bubble, dew = _coexisting(state)
-            self._remember_saturation(bubble, dew)
-            return dew if quality == 1.0 else bubble
         return self._snapshot(state, quality, "two_phase")
 
     def _remember_saturation(self, *found: State) -> None:
@@ -304,8 +329,7 @@ class PropertyModel:
     def check_equation_range(self, pressure: float, temperature: float) -> None:
         """The equation of state's own range: temperature up to its Tmax, pressure up to its
         pmax (beyond them CoolProp refuses or extrapolates)."""
-        state = self._state()
-        t_max, p_max = state.Tmax(), state.pmax()
+        t_max, p_max = self._t_max, self._p_max
         if temperature > t_max or pressure > p_max:
             raise OutOfRange(
                 f"{{t}} and {{p}} lie outside the equation of state of {self.name}, which "
@@ -334,13 +358,20 @@ class PropertyModel:
             )
         return self._two_phase_at(pressure, temperature, lambda s: s.temperature, bubble, dew, 0)
 
-    def at_pressure_enthalpy(self, pressure: float, enthalpy: float) -> State:
-        """State at ``pressure`` [Pa] and specific ``enthalpy`` [J/kg]."""
-        return self._at_pressure(pressure, enthalpy, "enthalpy")
+    def at_pressure_enthalpy(self, pressure: float, enthalpy: float,
+                             near: State | None = None) -> State:
+        """State at ``pressure`` [Pa] and specific ``enthalpy`` [J/kg].
 
-    def at_pressure_entropy(self, pressure: float, entropy: float) -> State:
-        """State at ``pressure`` [Pa] and specific ``entropy`` [J/kg/K]."""
-        return self._at_pressure(pressure, entropy, "entropy")
+        ``near``: a single-phase state close to the answer (a compression's isentropic end
+        for its real one), used as the Newton start: a start only, never an answer, so the
+        result is the same with or without it to far below the engine's 1e-6."""
+        return self._at_pressure(pressure, enthalpy, "enthalpy", near)
+
+    def at_pressure_entropy(self, pressure: float, entropy: float,
+                            near: State | None = None) -> State:
+        """State at ``pressure`` [Pa] and specific ``entropy`` [J/kg/K] (``near``: as for
+        :meth:`at_pressure_enthalpy`)."""
+        return self._at_pressure(pressure, entropy, "entropy", near)
 
     def at_pressure_quality(self, pressure: float, quality: float) -> State:
         """Two-phase state at ``pressure`` [Pa] and vapour mass fraction ``quality`` [1].
@@ -349,9 +380,16 @@ class PropertyModel:
         the mass fraction where the phases' compositions (and so molar masses) differ: from the
         blend's table (:mod:`heatlift.properties_tables`) when it covers the pressure, else by
         secant steps on the library's molar quality until its mass fraction is ``quality``.
+
+        A pure fluid and the library's pseudo-pure blends: T, h, s and the specific volume
+        are linear in quality between the bubble and the dew point at the pressure (the
+        library's own definition of their two-phase states), so the state is mixed from them.
         """
+        if not self.is_mixture:
+            return _mixed(self.saturated_at_pressure(pressure, 0.0),
+                          self.saturated_at_pressure(pressure, 1.0), quality)
         self.check_saturation_pressure(pressure)
-        if not self.is_mixture or quality in (0.0, 1.0):
+        if quality in (0.0, 1.0):
             state = self._update(CP.PQ_INPUTS, pressure, quality)
             return self._snapshot(state, quality, "two_phase")
         found = self._from_table(pressure, 4, quality)
@@ -492,32 +530,36 @@ class PropertyModel:
                 ) from exc
         return Coexistence(pressure, temperature, quality, liquid, vapor, sigma)
 
-    def _at_pressure(self, pressure: float, target: float, which: str) -> State:
+    def _at_pressure(self, pressure: float, target: float, which: str,
+                     near: State | None = None) -> State:
         def prop(state: State) -> float:
             return state.enthalpy if which == "enthalpy" else state.entropy
 
+        if near is not None and near.quality is not None:
+            near = None  # a two-phase state is no start for a single-phase solve
         if pressure >= self.critical_pressure:
             return self._spanned_solve(pressure, target, which, "supercritical", None,
-                                       "supercritical", "supercritical")
+                                       "supercritical", "supercritical", near)
         self.check_saturation_pressure(pressure)
         bubble = self.saturated_at_pressure(pressure, 0.0)
         dew = self.saturated_at_pressure(pressure, 1.0)
         if target > prop(dew):
             return self._spanned_solve(pressure, target, which, "superheated_vapor", dew,
-                                       None, "superheated_vapor")
+                                       None, "superheated_vapor", near)
         if target < prop(bubble):
             return self._spanned_solve(pressure, target, which, "subcooled_liquid", bubble,
-                                       "subcooled_liquid", None)
+                                       "subcooled_liquid", None, near)
         return self._two_phase_at(pressure, target, prop, bubble, dew,
                                   1 if which == "enthalpy" else 2)
 
     def _spanned_solve(self, pressure: float, target: float, which: str, phase: str,
-                       start: State | None, low: str | None, high: str | None) -> State:
+                       start: State | None, low: str | None, high: str | None,
+                       near: State | None = None) -> State:
         """:meth:`_single_phase_solve`, with the span of the equation of state checked
         (:meth:`_check_span`, OutOfRange) only when the solve fails or its temperature lies
         outside the equation of state's range: a state inside costs no bound evaluations."""
         try:
-            found = self._single_phase_solve(pressure, target, which, phase, start)
+            found = self._single_phase_solve(pressure, target, which, phase, start, near)
         except (NotConverged, PropertyFailure):
             self._check_span(pressure, target, which, low, high)
             raise
@@ -537,7 +579,7 @@ class PropertyModel:
         if low is not None:
             bounds.append((low, self.limits.temperature_min, "below", "lowest"))
         if high is not None:
-            bounds.append((high, self._state().Tmax(), "above", "highest"))
+            bounds.append((high, self._t_max, "above", "highest"))
         for phase, temperature, word, extreme in bounds:
             try:
                 edge = self._single_phase_pt(pressure, temperature, phase)
@@ -583,21 +625,26 @@ class PropertyModel:
             # imposed supercritical phase below T_c lands on a metastable root there)
             state = self._update(CP.PT_INPUTS, pressure, temperature,
                                  None if phase == "supercritical" else flag)
-        starts = self._starts()
-        if len(starts) > 64:
-            starts.clear()
-        starts[(pressure, phase)] = (temperature, state.rhomass())
-        return self._snapshot(state, None, self._phase_name(state, phase))
+        return self._single_phase_state(state, pressure, phase)
 
-    def _phase_name(self, state: CP.AbstractState, phase: str) -> str:
-        """Above the critical pressure a state is supercritical; below it, hotter than the
-        critical temperature, it is a superheated vapour (the trade's word for it)."""
-        if state.p() >= self.critical_pressure:
-            return "supercritical"
-        if phase == "supercritical":
-            return "superheated_vapor" if state.T() >= self.critical_temperature else \
+    def _single_phase_state(self, state: CP.AbstractState, pressure: float, phase: str
+                            ) -> State:
+        """The solved single-phase ``state`` at the asked ``pressure`` [Pa].
+
+        The pressure written is the one asked for: the solve leaves the density within 1e-9
+        of the root, where a liquid's own pressure (its bulk modulus times that) can still be
+        off by a part in a million. Above the critical pressure a state is supercritical;
+        below it, hotter than the critical temperature, it is a superheated vapour (the
+        trade's word for it).
+        """
+        temperature = state.T()
+        if pressure >= self.critical_pressure:
+            phase = "supercritical"
+        elif phase == "supercritical":
+            phase = "superheated_vapor" if temperature >= self.critical_temperature else \
                 "subcooled_liquid"
-        return phase
+        return State(pressure, temperature, state.hmass(), state.smass(), state.rhomass(), None,
+                     phase)
 
     def _density_guess(self, pressure: float, temperature: float, phase: str) -> float:
         """A starting density [kg/m^3] for the phase at ``pressure`` [Pa], ``temperature`` [K].
@@ -605,9 +652,10 @@ class PropertyModel:
         Vapour: the dew point's compressibility Z_d = p / (rho_d R T_d), relaxed towards the
         ideal gas as (T_d / T)^2.5 (the second virial term B p / (R T) falls roughly so),
         rho = p / (Z R T). Liquid of a pure fluid: the saturated liquid at the temperature
-        (a saturation evaluation costs about a microsecond), which Newton's first step corrects
-        for compression; of a blend: the bubble point at the pressure. Supercritical: 1.5 times
-        the ideal gas's density.
+        (a saturation evaluation costs about a microsecond), compressed to the pressure with its
+        isothermal compressibility; of a blend: the bubble point at the pressure, expanded along
+        the saturated liquid line of its table when there is one. Supercritical: 1.5 times the
+        ideal gas's density.
         """
         r_mass = self._constants[0]
         if phase == "supercritical" or pressure >= self.critical_pressure:
@@ -622,34 +670,46 @@ class PropertyModel:
             z = 1.0 - (1.0 - z_dew) * (sat.temperature / temperature) ** 2.5
             return pressure / (z * r_mass * temperature)
         if not self.is_mixture and temperature >= self.limits.temperature_min:
+            # compressed from its saturation pressure at constant isothermal compressibility
+            # kappa_T: rho = rho_sat exp(kappa_T (p - p_sat)), a start within about 1e-8
             state = self._update(CP.QT_INPUTS, 0.0, temperature)
-            return state.rhomass()
-        return self.saturated_at_pressure(pressure, 0.0).density
+            kappa = state.saturated_liquid_keyed_output(CP.iisothermal_compressibility)
+            return state.rhomass() * math.exp(min(0.5, kappa * (pressure - state.p())))
+        bubble = self.saturated_at_pressure(pressure, 0.0)
+        table = self._table()
+        if table is not None and table.covers(pressure):
+            # expanded from the bubble point along the saturated liquid line of the table
+            beta = table.liquid_expansion(pressure)
+            return bubble.density * math.exp(max(-0.5, min(0.5, -beta * (
+                temperature - bubble.temperature))))
+        return bubble.density
 
     def _single_phase_solve(
-        self, pressure: float, target: float, which: str, phase: str, start: State | None
+        self, pressure: float, target: float, which: str, phase: str, start: State | None,
+        near: State | None = None,
     ) -> State:
         """The single-phase state at ``pressure`` with the given enthalpy or entropy.
 
         Newton steps in temperature and density on the equation of state with the phase
         imposed (:func:`heatlift.flash.pressure_and`; each evaluation takes microseconds),
-        starting from the last state this thread solved at the same pressure in the same phase
-        (a start only, never an answer) or else from the saturated state ``start``. A pure
-        fluid whose steps fail falls back on the library's own flash; a blend raises
-        NotConverged. The answer must lie on the side of saturation the phase says.
+        starting from ``near`` when given, else from the saturated state ``start``. The start
+        depends on the inputs alone, never on what the process solved before, so that equal
+        requests give equal answers to the last digit. A pure fluid whose steps fail falls
+        back on the library's own flash; a blend raises NotConverged. The answer must lie on
+        the side of saturation the phase says.
         """
         flag = self._PHASE_FLAGS[phase]
-        starts = self._starts()
-        guess = starts.get((pressure, phase))
-        if guess is None:
-            if start is not None:
-                guess = flash.first_guess_from_saturation(
-                    start.temperature, start.density, target, which, phase == "superheated_vapor")
-            else:
-                temperature = self.critical_temperature * 1.2
-                guess = (temperature, self._density_guess(pressure, temperature, phase))
+        if near is not None:
+            guess = (near.temperature, near.density)
+        elif start is not None:
+            guess = flash.first_guess_from_saturation(
+                start.temperature, start.density, target, which, phase == "superheated_vapor")
+        else:
+            temperature = self.critical_temperature * 1.2
+            guess = (temperature, self._density_guess(pressure, temperature, phase))
         state = self._state()
-        try:
+
+        def solve(guess: tuple[float, float]) -> None:
             flash.pressure_and(state, pressure, target, which, guess[0], guess[1], flag,
                                self._constants)
             wrong_side = start is not None and (
@@ -659,6 +719,17 @@ class PropertyModel:
                 raise flash.FlashFailure("converged on the other side of saturation")
             if start is None and not self.is_mixture and self._metastable(state):
                 raise flash.FlashFailure("converged on a metastable root")
+
+        try:
+            try:
+                solve(guess)
+            except flash.FlashFailure:
+                if self.is_mixture or phase != "subcooled_liquid" or start is None:
+                    raise
+                # a liquid far colder than its bubble point (near the critical pressure the
+                # bubble point's density is far from the cold liquid's): start on the
+                # saturated liquid line where the property is the target
+                solve(self._liquid_line_start(pressure, target, which, start.temperature))
         except flash.FlashFailure as exc:
             if self.is_mixture:
                 raise NotConverged(
@@ -668,10 +739,36 @@ class PropertyModel:
             pair = CP.HmassP_INPUTS if which == "enthalpy" else CP.PSmass_INPUTS
             a, b = (target, pressure) if which == "enthalpy" else (pressure, target)
             state = self._update(pair, a, b)
-        if len(starts) > 64:
-            starts.clear()
-        starts[(pressure, phase)] = (state.T(), state.rhomass())
-        return self._snapshot(state, None, self._phase_name(state, phase))
+        return self._single_phase_state(state, pressure, phase)
+
+    def _liquid_line_start(self, pressure: float, target: float, which: str,
+                           t_bubble: float) -> tuple[float, float]:
+        """(T [K], rho [kg/m^3]): the saturated liquid whose enthalpy or entropy is ``target``
+        (regula falsi on the temperature-quality flash between the lowest temperature and the
+        bubble point ``t_bubble``, to 1e-6 K: a start only), compressed to ``pressure`` with
+        its isothermal compressibility. Pure fluids and pseudo-pure blends."""
+        def value(t: float) -> float:
+            st = self._update(CP.QT_INPUTS, 0.0, t)
+            return (st.hmass() if which == "enthalpy" else st.smass()) - target
+
+        lo, hi = self.limits.temperature_min, t_bubble
+        f_lo, f_hi = value(lo), value(hi)
+        t = hi
+        if f_lo < 0.0 < f_hi:
+            for _ in range(60):
+                t = lo - f_lo * (hi - lo) / (f_hi - f_lo)
+                f = value(t)
+                if abs(f) <= 1e-9 * (abs(target) + 1.0) or hi - lo < 1e-6:
+                    break
+                if f < 0.0:
+                    lo, f_lo = t, f
+                    f_hi *= 0.5  # Illinois: the kept end's weight halves
+                else:
+                    hi, f_hi = t, f
+                    f_lo *= 0.5
+        st = self._update(CP.QT_INPUTS, 0.0, t)
+        kappa = st.saturated_liquid_keyed_output(CP.iisothermal_compressibility)
+        return t, st.rhomass() * math.exp(min(0.5, kappa * (pressure - st.p())))
 
     def _metastable(self, state: CP.AbstractState) -> bool:
         """A pure fluid above its critical pressure but below its critical temperature is
@@ -691,13 +788,6 @@ class PropertyModel:
             found = self._local.second = CP.AbstractState("HEOS", self._backend_name)
         return found
 
-    def _starts(self) -> dict[tuple[float, str], tuple[float, float]]:
-        """This thread's last solved (T [K], rho [kg/m^3]) per (pressure, phase): Newton starts."""
-        found = getattr(self._local, "starts", None)
-        if found is None:
-            found = self._local.starts = {}
-        return found
-
     # -- two phase ------------------------------------------------------------------------------
 
     def _two_phase_at(
@@ -714,15 +804,17 @@ class PropertyModel:
         A blend with a table covering the pressure: the table's two-phase series (``which``
         names the property: 0 temperature, 1 enthalpy, 2 entropy).
 
-        For a pure fluid enthalpy and entropy are linear in quality, so the first guess is exact;
-        for a blend a bounded secant iteration on saturation flashes (at most 40 steps, bracket
-        kept) refines it.
+        For a pure fluid and the pseudo-pure blends every property is linear in quality, so
+        the first guess is exact; for a blend a bounded secant iteration on saturation flashes
+        (at most 40 steps, bracket kept) refines it.
         """
-        if which is not None and self.is_mixture:
+        low, high = prop(bubble), prop(dew)
+        if not self.is_mixture:
+            return _mixed(bubble, dew, min(1.0, max(0.0, (target - low) / (high - low))))
+        if which is not None:
             found = self._from_table(pressure, which, target)
             if found is not None:
                 return found
-        low, high = prop(bubble), prop(dew)
         quality = (target - low) / (high - low)
         glide = dew.temperature - bubble.temperature
         if glide < 1e-9 or quality in (0.0, 1.0):
@@ -767,12 +859,13 @@ class PropertyModel:
         if "pressure" in names:
             p = given["pressure"]
             other = next(iter(names - {"pressure"}))
-            return {
+            solvers: dict[str, Callable[[float, float], State]] = {
                 "temperature": self.at_pressure_temperature,
                 "enthalpy": self.at_pressure_enthalpy,
                 "entropy": self.at_pressure_entropy,
                 "quality": self.at_pressure_quality,
-            }[other](p, given[other])
+            }
+            return solvers[other](p, given[other])
         if names == {"temperature", "quality"}:
             return self.at_temperature_quality(given["temperature"], given["quality"])
         if self.is_mixture:
@@ -986,6 +1079,26 @@ def _component_viscosity(
         return state.viscosity(), molar_mass
     finally:
         state.unspecify_phase()
+
+
+def _mixed(bubble: State, dew: State, quality: float) -> State:
+    """The two-phase state of vapour mass fraction ``quality`` between ``bubble`` and ``dew``
+    at one pressure, each property linear in quality (specific volume for the density): exact
+    for a pure fluid and for the library's pseudo-pure blends."""
+    if quality == 0.0:
+        return bubble
+    if quality == 1.0:
+        return dew
+    liquid = 1.0 - quality
+    return State(
+        bubble.pressure,
+        liquid * bubble.temperature + quality * dew.temperature,
+        liquid * bubble.enthalpy + quality * dew.enthalpy,
+        liquid * bubble.entropy + quality * dew.entropy,
+        1.0 / (liquid / bubble.density + quality / dew.density),
+        quality,
+        "two_phase",
+    )
 
 
 def _coexisting(state: CP.AbstractState) -> tuple[State, State]:

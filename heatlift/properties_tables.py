@@ -26,6 +26,7 @@ SI units: Pa, K, J/kg, J/kg/K, m^3/kg.
 
 from __future__ import annotations
 
+import bisect
 import functools
 import hashlib
 import json
@@ -43,7 +44,7 @@ import CoolProp
 import CoolProp.CoolProp as CP
 import numpy as np
 
-FORMAT = 1
+FORMAT = 2  # 2: each blend carries its limits (triple-point end, critical point)
 TOLERANCE = 2e-8  # relative agreement required at the check points (50 times below 1e-6)
 NX, NQ = 16, 16  # series degrees in x = ln p and in Q
 WIDTH = 0.7  # initial interval width in ln p
@@ -111,12 +112,23 @@ class Interval:
 class BlendTable:
     """Fitted saturation of one blend between ``pressure_min`` and ``pressure_max`` [Pa]."""
 
-    def __init__(self, name: str, intervals: list[Interval]) -> None:
+    def __init__(self, name: str, intervals: list[Interval],
+                 limits: tuple[float, float, float, float] | None = None) -> None:
         self.name = name
         self.intervals = intervals
+        # (lowest temperature [K], its bubble pressure [Pa], critical temperature [K],
+        # critical pressure [Pa]) as the property model found them when the table was built
+        self.limits = limits
         self.x_min, self.x_max = intervals[0].a, intervals[-1].b
         self.pressure_min, self.pressure_max = math.exp(self.x_min), math.exp(self.x_max)
         self._edges = [iv.a for iv in intervals]
+        # bubble (column 0) and dew (column 4) temperatures at every interval's ends, for
+        # pressure_at's start: T_k(+-1) = (+-1)^k
+        signs = np.array([(-1.0) ** k for k in range(NX + 1)])
+        self._t_ends = {
+            column: ([float(signs @ iv.line[:, column]) for iv in intervals]
+                     + [float(np.sum(intervals[-1].line[:, column]))])
+            for column in (0, 4)}
 
     def covers(self, pressure: float) -> bool:
         return self.pressure_min <= pressure <= self.pressure_max
@@ -139,6 +151,16 @@ class BlendTable:
         values = _basis((2.0 * x - iv.a - iv.b) / (iv.b - iv.a), NX) @ iv.line
         t_b, h_b, s_b, lv_b, t_d, h_d, s_d, lv_d = values.tolist()
         return (t_b, h_b, s_b, math.exp(lv_b)), (t_d, h_d, s_d, math.exp(lv_d))
+
+    def liquid_expansion(self, pressure: float) -> float:
+        """d ln v / dT along the bubble line at ``pressure`` [1/K]: the saturated liquid's
+        thermal expansion, from the slopes of the ln v and T series in x = ln p (a start for
+        the subcooled liquid's density)."""
+        x = math.log(pressure)
+        iv = self._interval(x)
+        _, slope = _basis_and_slope((2.0 * x - iv.a - iv.b) / (iv.b - iv.a), NX)
+        d_t, d_lv = float(slope @ iv.line[:, 0]), float(slope @ iv.line[:, 3])
+        return d_lv / d_t if d_t > 0.0 else 0.0
 
     def two_phase(self, pressure: float, which: int, target: float
                   ) -> tuple[float, float, float, float, float] | None:
@@ -193,32 +215,37 @@ class BlendTable:
             coefficients = iv.line[:, column]
             return float(basis @ coefficients), float(slope @ coefficients) * scale
 
-        t_lo, _ = line_t(self.x_min)
-        t_hi, _ = line_t(self.x_max)
-        if not t_lo <= temperature <= t_hi:
+        ends = self._t_ends[column]
+        if not ends[0] <= temperature <= ends[-1]:
             return None
-        # T rises with ln p along a saturation line: a secant start between the ends
-        x = self.x_min + (temperature - t_lo) / (t_hi - t_lo) * (self.x_max - self.x_min)
+        # T rises with ln p along a saturation line: the interval whose end temperatures
+        # bracket it, and a secant start between those ends
+        k = min(bisect.bisect_right(ends, temperature), len(self.intervals)) - 1
+        iv, t_a, t_b = self.intervals[k], ends[k], ends[k + 1]
+        x = iv.a + (temperature - t_a) / (t_b - t_a) * (iv.b - iv.a) if t_b > t_a else iv.a
         for _ in range(40):
             value, slope = line_t(x)
             if slope <= 0.0:
                 return None
             step = (value - temperature) / slope
             x = min(self.x_max, max(self.x_min, x - step))
-            if abs(step) <= 1e-14:
+            if abs(step) <= 1e-13:  # ln p: the pressure to 1e-13 relative
                 return math.exp(x)
         return None
 
     # -- storage -----------------------------------------------------------------------------
 
     def to_json(self) -> dict[str, Any]:
-        return {"intervals": [{"a": iv.a, "b": iv.b, "line": iv.line.tolist(),
+        return {"limits": list(self.limits) if self.limits else None,
+                "intervals": [{"a": iv.a, "b": iv.b, "line": iv.line.tolist(),
                                "dome": iv.dome.tolist()} for iv in self.intervals]}
 
     @classmethod
     def from_json(cls, name: str, raw: dict[str, Any]) -> BlendTable:
+        limits = raw.get("limits")
         return cls(name, [Interval(float(iv["a"]), float(iv["b"]), np.array(iv["line"]),
-                                   np.array(iv["dome"])) for iv in raw["intervals"]])
+                                   np.array(iv["dome"])) for iv in raw["intervals"]],
+                   tuple(float(v) for v in limits) if limits else None)  # type: ignore[arg-type]
 
 
 # -- building -----------------------------------------------------------------------------------
@@ -384,6 +411,9 @@ def build(names: Iterable[str] | None = None, path: Path | None = None,
         if table is None:
             log(f"{name}: no table")
             continue
+        lim = m.limits
+        table.limits = (lim.temperature_min, lim.pressure_min, lim.critical_temperature,
+                        lim.critical_pressure)
         out["blends"][name] = table.to_json()
         log(f"{name}: {len(table.intervals)} intervals, {table.pressure_min / 1e3:.1f} to "
             f"{table.pressure_max / 1e3:.0f} kPa, {time.perf_counter() - started:.1f} s")

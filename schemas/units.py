@@ -212,6 +212,10 @@ class UnitContext:
     system: str = "SI"
     overrides: dict[str, str] = field(default_factory=dict)
     atmospheric_pressure: float = STANDARD_ATMOSPHERE
+    # kind -> (output unit, its map), filled as results are rendered (a result renders the
+    # same few kinds dozens of times)
+    _outputs: dict[str, tuple[str, AffineMap]] = field(
+        default_factory=dict, compare=False, repr=False)
 
     def output_unit(self, kind: str) -> str:
         if kind in self.overrides:
@@ -246,8 +250,17 @@ class UnitContext:
 
     def render(self, value: float, kind: str, unit: str | None = None) -> dict[str, object]:
         """``{"value", "unit"}`` for an SI value; non-finite values are written as null."""
-        unit = unit or self.output_unit(kind)
-        out = self.from_si(value, kind, unit)
+        if not unit:
+            found = self._outputs.get(kind)
+            if found is None:
+                chosen = self.output_unit(kind)
+                found = self._outputs[kind] = (chosen, affine_map(chosen, kind))
+            unit, m = found
+        else:
+            m = affine_map(unit, kind)
+        if m.gauge:  # the arithmetic of from_si
+            value -= self.atmospheric_pressure
+        out = (value - m.offset) / m.scale
         if not math.isfinite(out):
             return {"value": None, "unit": unit}
         # 15 significant digits: free of the last-bit

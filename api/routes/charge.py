@@ -14,9 +14,9 @@ blp = Blueprint("charge", __name__, url_prefix="/v1/charge",
 
 @blp.route("")
 class Charge(MethodView):
-    @blp.arguments(ChargeRequestSchema)
+    @blp.arguments(ChargeRequestSchema())
     @blp.response(200, ChargeReplySchema)
     def post(self, spec: charge.ChargeSpec):
         """Charge of lines, heat exchangers and vessels; CO2-equivalent; allowed charge."""
         result = charge.estimate(spec)
-        return reply(ChargeResultSchema(), result, remarks=result.remarks)
+        return reply(ChargeResultSchema, result, remarks=result.remarks)

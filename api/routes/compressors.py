@@ -18,11 +18,11 @@ blp = Blueprint("compressors", __name__, url_prefix="/v1/compressors",
 
 @blp.route("/polynomial")
 class Polynomial(MethodView):
-    @blp.arguments(PolynomialRequestSchema)
+    @blp.arguments(PolynomialRequestSchema())
     @blp.response(200, PolynomialReplySchema)
     def post(self, args):
         """Evaluate a compressor polynomial set; correct it to the actual superheat, subcooling."""
         result = evaluate_polynomial(args["spec"], args["evaporating_temperature"],
                                      args["condensing_temperature"], args.get("superheat"),
                                      args.get("subcooling"))
-        return reply(PolynomialResultSchema(), result, remarks=result.remarks)
+        return reply(PolynomialResultSchema, result, remarks=result.remarks)

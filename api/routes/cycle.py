@@ -17,18 +17,18 @@ blp = Blueprint("cycle", __name__, url_prefix="/v1/cycle",
 
 def _solved(spec: cycle.CycleSpec):
     result = cycle.solve(spec)
-    return reply(CycleResultSchema(), result, remarks=result.remarks)
+    return reply(CycleResultSchema, result, remarks=result.remarks)
 
 
 @blp.route("")
 class Cycle(MethodView):
-    @blp.arguments(CycleRequestSchema)
+    @blp.arguments(CycleRequestSchema())
     @blp.response(200, CycleReplySchema)
     def post(self, spec):
         """Solve a single-stage, economised, two-stage or transcritical circuit."""
         return _solved(spec)
 
-    @blp.arguments(CycleQuerySchema, location="query")
+    @blp.arguments(CycleQuerySchema(), location="query")
     @blp.response(200, CycleReplySchema)
     def get(self, args):
         """The single-stage cycle from flat query parameters (csv and select for spreadsheets)."""
@@ -37,10 +37,10 @@ class Cycle(MethodView):
 
 @blp.route("/sweep")
 class Sweep(MethodView):
-    @blp.arguments(SweepRequestSchema)
+    @blp.arguments(SweepRequestSchema())
     @blp.response(200, SweepReplySchema)
     def post(self, args):
         """One input of a cycle varied over a range: one row of results per value."""
         values = sweep_values(args, current_app.config["HEATLIFT_MAX_SWEEP_POINTS"])
         result = run_sweep(args, args["vary"], values)
-        return reply(SweepResultSchema(), result, rows_key="rows")
+        return reply(SweepResultSchema, result, rows_key="rows")

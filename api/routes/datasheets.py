@@ -4,13 +4,15 @@ from __future__ import annotations
 
 from typing import Any
 
-from flask import Response, current_app, json, request
+from flask import Response, current_app, request
 from flask.views import MethodView
 from flask_smorest import Blueprint
 from marshmallow import ValidationError
 from werkzeug.exceptions import BadRequest, RequestEntityTooLarge, UnprocessableEntity
 
-from api.output import csv_text, flatten, meta
+from api.batch import many_rows
+from api.encoding import to_json
+from api.output import csv_text, flatten, meta, schema_instance
 from heatlift import datasheet
 from heatlift.csvfile import CsvError, TooManyRows
 from heatlift.junit import junit_xml
@@ -25,6 +27,7 @@ from schemas.datasheets import (
     load_rows,
     tolerances_from,
 )
+from schemas.dumping import dump
 
 ORDER = 80
 DEFAULT_MAX_ROWS = 10_000
@@ -69,7 +72,7 @@ def _read(limit: int) -> tuple[list[tuple[int | None, dict[str, Any]]], dict[str
         if isinstance(data.get("rows"), list) and len(data["rows"]) > limit:
             raise _too_many(limit)
         try:
-            loaded = DatasheetBodySchema().load(data)
+            loaded = schema_instance(DatasheetBodySchema).load(data)
         except ValidationError as exc:
             raise DatasheetInvalid(exc.messages_dict) from exc
         data, tolerances = loaded["rows"], loaded.get("tolerances")
@@ -134,9 +137,10 @@ _REPLY_DOC = {
 class Validate(MethodView):
     content_types = ("application/json", "text/csv")
 
-    @blp.arguments(DatasheetQuerySchema, location="query")
+    @blp.arguments(DatasheetQuerySchema(), location="query")
     @blp.doc(requestBody=_BODY_DOC, responses={"200": _REPLY_DOC})
     @blp.response(200, DatasheetReplySchema)
+    @many_rows
     def post(self, query):
         """Check datasheet rows against the physics and against each other.
 
@@ -150,11 +154,11 @@ class Validate(MethodView):
             raise DatasheetInvalid({"rows": ["the datasheet has no rows"]})
         tolerances = tolerances_from(query, body_tolerances)
         result = datasheet.validate(load_rows(raw), tolerances)
-        body = DatasheetValidationSchema().dump(result)
+        body = dump(schema_instance(DatasheetValidationSchema), result)
         fmt = _format(query.get("format"))
         if fmt == "csv":
             return Response(csv_text(_csv_records(body)), mimetype=_MIMETYPES["csv"])
         if fmt == "junit":
             return Response(junit_xml(body["rows"]), mimetype=_MIMETYPES["junit"])
         body["meta"] = meta()
-        return Response(json.dumps(body), mimetype=_MIMETYPES["json"])
+        return Response(to_json(body), mimetype=_MIMETYPES["json"])

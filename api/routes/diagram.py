@@ -19,8 +19,8 @@ _CHART = ("the chart: image/svg+xml by default, image/png when the Accept header
 
 @blp.route("/diagram")
 class Diagram(MethodView):
-    @blp.arguments(DiagramQuerySchema, location="query")
-    @blp.arguments(DiagramRequestSchema)
+    @blp.arguments(DiagramQuerySchema(), location="query")
+    @blp.arguments(DiagramRequestSchema())
     @blp.response(200, _IMAGE, content_type="image/svg+xml", description=_CHART)
     @blp.alt_response(200, schema=_IMAGE, content_type="image/png", success=True,
                       description=_CHART)

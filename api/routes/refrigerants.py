@@ -15,7 +15,7 @@ blp = Blueprint("refrigerants", __name__, url_prefix="/v1/refrigerants",
 
 @blp.route("")
 class Catalogue(MethodView):
-    @blp.arguments(QueryUnitSettingsSchema, location="query")
+    @blp.arguments(QueryUnitSettingsSchema(), location="query")
     @blp.response(200, RefrigerantListSchema)
     def get(self, _args):
         """Every refrigerant: kind, composition, safety class, GWP100, critical point."""
@@ -24,8 +24,8 @@ class Catalogue(MethodView):
 
 @blp.route("/<designation>")
 class Entry(MethodView):
-    @blp.arguments(QueryUnitSettingsSchema, location="query")
+    @blp.arguments(QueryUnitSettingsSchema(), location="query")
     @blp.response(200, RefrigerantReplySchema)
     def get(self, _args, designation: str):
         """One refrigerant by its ISO 817 / ASHRAE 34 designation."""
-        return reply(RefrigerantSchema(), describe(designation))
+        return reply(RefrigerantSchema, describe(designation))

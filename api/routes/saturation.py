@@ -4,6 +4,7 @@ from flask import current_app
 from flask.views import MethodView
 from flask_smorest import Blueprint
 
+from api.batch import many_rows
 from api.output import reply
 from heatlift import saturation
 from schemas.saturation import (
@@ -29,25 +30,26 @@ def _lookup(args: dict):
 
 @blp.route("")
 class Saturation(MethodView):
-    @blp.arguments(SaturationQuerySchema, location="query")
+    @blp.arguments(SaturationQuerySchema(), location="query")
     @blp.response(200, SaturationReplySchema)
     def get(self, args):
         """Saturation by temperature or by pressure (query parameters; csv and select too)."""
-        return reply(SaturationSchema(), _lookup(args))
+        return reply(SaturationSchema, _lookup(args))
 
-    @blp.arguments(SaturationBodySchema)
+    @blp.arguments(SaturationBodySchema())
     @blp.response(200, SaturationReplySchema)
     def post(self, args):
         """Saturation by temperature or by pressure (JSON body)."""
-        return reply(SaturationSchema(), _lookup(args))
+        return reply(SaturationSchema, _lookup(args))
 
 
 @blp.route("/table")
 class Table(MethodView):
-    @blp.arguments(SaturationTableQuerySchema, location="query")
+    @blp.arguments(SaturationTableQuerySchema(), location="query")
     @blp.response(200, SaturationTableReplySchema)
+    @many_rows
     def get(self, args):
         """Saturation rows over a range of temperatures (or pressures with by=pressure)."""
         result = saturation.table(args["refrigerant"], args["by"], args["start"], args["stop"],
                                   args["step"], current_app.config["HEATLIFT_MAX_TABLE_POINTS"])
-        return reply(SaturationTableSchema(), result, rows_key="rows")
+        return reply(SaturationTableSchema, result, rows_key="rows")

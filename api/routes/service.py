@@ -1,10 +1,11 @@
 """Health, readiness and version."""
 
-from flask import Response, json
+from flask import Response
 from flask.views import MethodView
 from flask_smorest import Blueprint
 
 import heatlift
+from api.encoding import to_json
 from heatlift.properties import LIBRARY_VERSION
 from heatlift.warmup import is_warm
 
@@ -13,7 +14,7 @@ blp = Blueprint("service", __name__, url_prefix="/v1", description="Service stat
 
 
 def _plain(body: dict, status: int = 200) -> Response:
-    return Response(json.dumps(body), status=status, mimetype="application/json")
+    return Response(to_json(body), status=status, mimetype="application/json")
 
 
 def _documented(description: str, **properties: str) -> dict:

@@ -14,9 +14,9 @@ blp = Blueprint("state", __name__, url_prefix="/v1/state",
 
 @blp.route("")
 class State(MethodView):
-    @blp.arguments(StateRequestSchema)
+    @blp.arguments(StateRequestSchema())
     @blp.response(200, StateReplySchema)
     def post(self, args):
         """State, phase and superheat or subcooling at its pressure."""
         given = {k: args[k] for k in STATE_INPUTS if k in args}
-        return reply(StateReportSchema(), state.evaluate(args["refrigerant"], **given))
+        return reply(StateReportSchema, state.evaluate(args["refrigerant"], **given))

@@ -117,7 +117,8 @@ def compress(
     isentropic = m.at_pressure_entropy(pressure, suction.entropy)
     work = (isentropic.enthalpy - suction.enthalpy) / eta
     discharge = m.at_pressure_enthalpy(
-        pressure, suction.enthalpy + work * (1.0 - compressor.heat_loss_fraction)
+        pressure, suction.enthalpy + work * (1.0 - compressor.heat_loss_fraction),
+        near=isentropic,
     )
     return Compression(suction, discharge, work, eta)
 

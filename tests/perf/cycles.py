@@ -54,7 +54,7 @@ def engine_spec(name: str, c: Conditions) -> cycle.CycleSpec:
 def clear_saturation_cache(name: str) -> None:
     """Forget the thread's remembered saturation answers of ``name`` (if the model keeps any)."""
     local = model(name)._local
-    for attr in ("saturation", "starts"):
+    for attr in ("saturation",):
         found = getattr(local, attr, None)
         if isinstance(found, dict):
             found.clear()
@@ -62,8 +62,8 @@ def clear_saturation_cache(name: str) -> None:
 
 def engine_cycle(name: str, inputs: list[Conditions]) -> Callable[[Conditions], object]:
     """``cycle.solve`` on the spec of each of ``inputs`` (built before the clock starts, as the
-    plain sequences get their inputs ready-made), with the thread's saturation answers and
-    Newton starts forgotten before each solve."""
+    plain sequences get their inputs ready-made), with the thread's saturation answers
+    forgotten before each solve (Newton starts depend on the inputs alone)."""
     specs = {c: engine_spec(name, c) for c in inputs}
 
     def run(c: Conditions) -> object:

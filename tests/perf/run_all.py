@@ -74,11 +74,16 @@ def main(argv: list[str]) -> int:
     print(f"  none costs more than the physics: {verdict(heaviest <= split.physics)}")
     failed += heaviest > split.physics
 
-    ready, warm = service.startup()
+    up = service.startup()
     print("Target 4: start-up, ready in under 2 s per worker; tables loaded, never built")
-    print(f"  launch to ready (2 workers, warming in parallel): {ready:.2f} s; one worker's "
-          f"warm-up in-process: {warm:.2f} s: {verdict(warm < 2.0)}")
-    failed += warm >= 2.0
+    print(f"  launch to ready, 2 workers: {up.ready:.2f} s, of which once in the master: the "
+          f"property library's import {up.library_import:.2f} s, heatlift's import and warm-up "
+          f"{up.warm_up:.2f} s")
+    ok4 = 0.0 <= up.worker < 2.0 and up.warm_up < 2.0
+    print(f"  each worker, forked from the warm master: first cycle answered "
+          f"{up.worker * 1e3:.0f} ms after fork; heatlift's own start-up (import, app, warm-up) "
+          f"{up.warm_up:.2f} s: {verdict(ok4)}")
+    failed += not ok4
 
     print("Target 5: growth with rows (1k -> 10k), time per row")
     for what, points in grown.items():

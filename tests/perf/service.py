@@ -9,7 +9,8 @@ more threads than workers, bounded in count and in time, loopback only.
   request's time split into schema loading, physics, schema dumping (units rendering) and JSON
   encoding, measured in-process with the app's own schemas.
 - Target 4: the time from starting the server to ``/v1/ready`` answering 200 (all workers
-  warm), and what a worker's warm-up costs in-process.
+  warm); in a fresh process, the property library's import, the warm-up the master does once
+  before it forks, and the time a forked worker takes to answer its first cycle.
 - Target 5: ``GET /v1/saturation/table`` and ``POST /v1/datasheets/validate`` with 1k and
   10k rows; time per row at both sizes.
 """
@@ -132,23 +133,25 @@ def request_split(samples: int = 200) -> Split:
     request schema's load (unit parsing, validation), the engine's solve, the reply schema's
     dump (unit rendering) and the JSON encoding. The meta block needs an app context."""
     from api import create_app
-    from api.output import reply
+    from api.output import reply, schema_instance
     from heatlift import cycle
     from schemas.cycle import CycleRequestSchema, CycleResultSchema
+    from schemas.dumping import dump
 
     app = create_app()
     rng = random.Random(5)
     bodies = [cycle_body(rng) for _ in range(samples)]
     stages: dict[str, list[float]] = {k: [] for k in Split.__dataclass_fields__}
     clock = time.thread_time
+    loader, result_schema = schema_instance(CycleRequestSchema), schema_instance(CycleResultSchema)
     with app.test_request_context("/v1/cycle", method="POST"):
         for body in bodies:
             t0 = clock()
-            spec = CycleRequestSchema().load(body)
+            spec = loader.load(body)
             t1 = clock()
             result = cycle.solve(spec)
             t2 = clock()
-            dumped = CycleResultSchema().dump(result)
+            dumped = dump(result_schema, result)
             t3 = clock()
             json.dumps(dumped)
             t4 = clock()
@@ -156,21 +159,58 @@ def request_split(samples: int = 200) -> Split:
             stages["physics"].append(t2 - t1)
             stages["schema_dump"].append(t3 - t2)
             stages["json_encode"].append(t4 - t3)
-        reply(CycleResultSchema(), result)  # the real reply path works on this result too
+        reply(CycleResultSchema, result)  # the real reply path works on this result too
     return Split(**{k: statistics.median(v) for k, v in stages.items()})
 
 
-def startup() -> tuple[float, float]:
-    """(seconds from launch to ready with 2 workers, in-process warm-up seconds)."""
+@dataclass(frozen=True)
+class Startup:
+    ready: float  # launch of `heatlift serve` (2 workers) to /v1/ready answering 200 [s]
+    library_import: float  # importing the property library (it loads every fluid) [s]
+    warm_up: float  # importing heatlift and building every property model (tables read) [s]
+    worker: float  # a worker forked from the warm master to its first cycle answered [s]
+
+
+_WORKER_START = """
+import os, sys, time
+sys.path.insert(0, {root!r})
+t0 = time.perf_counter()
+import CoolProp.CoolProp
+t1 = time.perf_counter()
+from api import create_app
+from heatlift.warmup import warm_up
+app = create_app()
+warm_up()
+t2 = time.perf_counter()
+body = {body!r}
+read, write = os.pipe()
+forked = time.perf_counter()
+pid = os.fork()
+if pid == 0:  # as a gunicorn worker: the preloaded app, first request
+    client = app.test_client()
+    ok = client.post("/v1/cycle", json=body).status_code == 200
+    ok = ok and client.get("/v1/ready").status_code == 200
+    os.write(write, f"{{time.perf_counter() - forked if ok else -1.0}}".encode())
+    os._exit(0)
+os.waitpid(pid, 0)
+print(t1 - t0, t2 - t1, float(os.read(read, 64).decode()))
+"""
+
+
+def startup() -> Startup:
+    """Launch to ready with 2 workers, then in a fresh process: the library's import, the
+    warm-up (what the gunicorn master does once, before it forks), and one forked worker's
+    time to its first cycle answer (what each worker adds)."""
     t0 = time.perf_counter()
     proc, url = start_server(workers=2)
     ready = time.perf_counter() - t0
     stop_server(proc)
-    code = ("import time; t=time.perf_counter(); from heatlift.warmup import warm_up; "
-            "warm_up(); print(time.perf_counter()-t)")
+    code = _WORKER_START.format(root=str(ROOT), body=cycle_body(random.Random(3)))
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         cwd=ROOT, check=True)
-    return ready, float(out.stdout.strip().splitlines()[-1])
+                         cwd=ROOT, check=True, env={**os.environ, "HEATLIFT_ACCESS_LOG":
+                                                    "/dev/null"})
+    library, warm, worker = (float(v) for v in out.stdout.strip().splitlines()[-1].split())
+    return Startup(ready, library, warm, worker)
 
 
 def growth(url: str) -> dict[str, list[tuple[int, float]]]:
