@@ -13,11 +13,12 @@ quadratically in two to four evaluations to the state the general flash would fi
 the same equations; this one to a tighter tolerance). The pressure-temperature pair needs only
 the density: Newton on p(T, rho) = p* at fixed T.
 
-Every function takes a CoolProp ``AbstractState`` (any backend explicit in T and rho: ``HEOS``
-for pure fluids and for mixtures of fixed composition), leaves it updated at the solution and
-raises :class:`FlashFailure` when it does not converge or leaves the branch it was asked for
-(the caller then falls back on the library's own flash). SI units throughout: Pa, K, kg/m^3,
-J/kg, J/kg/K.
+Every solver takes a CoolProp ``AbstractState`` (any backend explicit in T and rho: ``HEOS``
+for pure fluids and for mixtures of fixed composition), returns the solved :class:`Point`
+(the state is left at its last evaluation, at most one short step from it) and raises
+:class:`FlashFailure` when it does not converge or leaves the branch it was asked for (the
+caller then falls back on the library's own flash). SI units throughout: Pa, K, kg/m^3, J/kg,
+J/kg/K.
 
 This module is the numerical kernel of the property layer: only heatlift/properties.py imports
 it, and the rest of the engine reaches the property library through properties.py alone.
@@ -31,7 +32,7 @@ Helmholtz-energy equation of state, as in Lemmon and Span's and the library's ow
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import Any, NamedTuple
 
 import CoolProp.CoolProp as CP
 
@@ -45,6 +46,10 @@ Y_TOL = 1e-12
 # (a thousand times below the promised 1e-6; a liquid's pressure reacts so strongly to its
 # density that the pressure criterion alone would ask for a density exact to 1e-14)
 STEP_TOL = 1e-9
+# a Newton step shorter than this (relative) is the last one: its end is not evaluated, h and s
+# there follow from the derivatives at its start, and T, rho, h and s are then within the
+# step's square (1e-10) of the root
+LAST_STEP_TOL = 1e-5
 Y_FLOOR = {"enthalpy": 1e4, "entropy": 10.0}
 
 _DT = CP.DmassT_INPUTS
@@ -65,37 +70,55 @@ def constants(state: CP.AbstractState) -> Fluid:
             state.rhomolar_reducing() * molar_mass, state.T_reducing())
 
 
-def _is_at(state: CP.AbstractState, temperature: float, rho: float, phase: Any) -> bool:
-    """Whether ``state`` was last evaluated at exactly (``temperature``, ``rho``) in ``phase``:
-    a start taken from the previous solve (compression: the isentropic state, then the real
-    one at the same pressure) then needs no evaluation of its own."""
+class Point(NamedTuple):
+    """A solved single-phase point [K, kg/m^3, J/kg, J/kg/K]."""
+
+    temperature: float
+    density: float
+    enthalpy: float
+    entropy: float
+
+
+def _current(state: CP.AbstractState, temperature: float, rho: float, phase: Any
+             ) -> tuple[float, float] | None:
+    """The state's last evaluated (T, rho) if it lies within LAST_STEP_TOL of (``temperature``,
+    ``rho``) in ``phase``, else None: a start handed over from the solve just before
+    (compression: the isentropic end, then the real one at the same pressure), whose last
+    evaluation is that close to it, then needs no evaluation of its own."""
     try:
-        return bool(state.T() == temperature and state.rhomass() == rho
-                    and state.phase() == phase)
+        t, d = state.T(), state.rhomass()
+        if state.phase() != phase:
+            return None
     except ValueError:
-        return False
+        return None
+    if abs(t - temperature) <= LAST_STEP_TOL * temperature and \
+            abs(d - rho) <= LAST_STEP_TOL * rho:
+        return t, d
+    return None
 
 
 def density_at(
     state: CP.AbstractState, pressure: float, temperature: float, rho: float, phase: Any,
     branch: str, fluid: Fluid,
-) -> None:
-    """The density at ``pressure`` [Pa] and ``temperature`` [K] from the start ``rho``.
+) -> Point:
+    """The point at ``pressure`` [Pa] and ``temperature`` [K], from the start density ``rho``.
 
     Newton on ln p(T, rho) = ln p* in ln rho (exact in one step for an ideal gas, and so close
     to linear for a vapour; plain Newton in rho on the liquid branch, where ln p is far from
-    linear), each step limited to half the density or a factor of 1.65, with p and its slope from
-    the reduced residual Helmholtz energy a^r(tau, delta) (Span, Multiparameter Equations of
-    State, 2000, table 3.3):
+    linear), each step limited to half the density or a factor of 1.65, with p and its slope
+    from the reduced residual Helmholtz energy a^r(tau, delta) (Span, Multiparameter Equations
+    of State, 2000, table 3.3):
 
         p = rho R T (1 + delta a^r_d),   dp/drho|T = R T (1 + 2 delta a^r_d + delta^2 a^r_dd),
         d ln rho = -(ln p - ln p*) p / (rho dp/drho).
 
+    A last step shorter than LAST_STEP_TOL is taken without evaluating its end: h and s there
+    follow from their derivatives (:func:`_last_step`), exact to the square of the step.
     ``phase`` is the library's phase index to impose; ``branch`` is ``"vapor"`` (a state
     between the spinodals, where dp/drho <= 0, is left towards lower density), ``"liquid"``
     or ``"any"``; ``fluid`` is :func:`constants` of the state.
     """
-    r_mass, _, rho_r, _ = fluid
+    r_mass, _, rho_r, t_r = fluid
     rt = r_mass * temperature
     tolerance = P_TOL * pressure
     log_target = math.log(pressure)
@@ -119,7 +142,12 @@ def density_at(
             else:
                 step = (math.log(p) - log_target) * p / (rho * slope)
             if abs(p - pressure) <= tolerance or abs(step) <= STEP_TOL:
-                return  # the state evaluated is within STEP_TOL of the root
+                return Point(temperature, rho, state.hmass(), state.smass())
+            if abs(step) <= LAST_STEP_TOL:
+                new_rho = rho * ((1.0 - step) if liquid else math.exp(-step))
+                a = rho * r_mass * (1.0 + delta * (ad - t_r / temperature
+                                                   * state.d2alphar_dDelta_dTau()))
+                return _last_step(state, temperature, rho, temperature, new_rho, a, slope)
             step = max(-0.5, min(0.5, step))
             rho *= (1.0 - step) if liquid else math.exp(-step)
         raise FlashFailure(f"no density found at {pressure} Pa and {temperature} K")
@@ -131,11 +159,28 @@ def density_at(
         state.unspecify_phase()
 
 
+def _last_step(state: CP.AbstractState, temperature: float, rho: float, new_t: float,
+               new_rho: float, a: float, b: float, cv: float | None = None) -> Point:
+    """The point at (``new_t``, ``new_rho``), one short Newton step from the state evaluated at
+    (``temperature``, ``rho``), with h and s carried along the step by their derivatives
+    (``a`` = dp/dT|rho, ``b`` = dp/drho|T; ``cv`` [J/kg/K] is read when not given):
+
+        dh = (cv + a / rho) dT + (b - T a / rho) / rho drho,   ds = cv / T dT - a / rho^2 drho.
+
+    The error is of the order of the step squared (below 1e-10 for a step below 1e-5)."""
+    if cv is None:
+        cv = state.cvmass()
+    d_t, d_rho = new_t - temperature, new_rho - rho
+    h = state.hmass() + (cv + a / rho) * d_t + (b - temperature * a / rho) / rho * d_rho
+    s = state.smass() + cv / temperature * d_t - a / (rho * rho) * d_rho
+    return Point(new_t, new_rho, h, s)
+
+
 def pressure_and(
     state: CP.AbstractState, pressure: float, target: float, which: str, temperature: float,
-    rho: float, phase: Any, fluid: Fluid,
-) -> None:
-    """The state at ``pressure`` [Pa] whose ``which`` (``"enthalpy"`` [J/kg] or ``"entropy"``
+    rho: float, phase: Any, fluid: Fluid, handed_over: bool = False,
+) -> Point:
+    """The point at ``pressure`` [Pa] whose ``which`` (``"enthalpy"`` [J/kg] or ``"entropy"``
     [J/kg/K]) equals ``target``, from the start (``temperature`` [K], ``rho`` [kg/m^3]).
 
     Newton on F = (ln p - ln p*, y - y*) = 0 in (ln T, ln rho): for an ideal gas ln p and s
@@ -154,7 +199,9 @@ def pressure_and(
 
     each times T or rho for relative steps. A step is shortened so that T moves by at most
     30 % and rho by at most 50 % (in the logarithms: 0.3 and 0.5); a mechanically unstable
-    state (dp/drho <= 0) ends the attempt.
+    state (dp/drho <= 0) ends the attempt. A last step shorter than LAST_STEP_TOL is taken
+    without evaluating its end (:func:`_last_step`). ``handed_over``: the start comes from
+    the solve just before, whose last evaluation may serve as the first one (:func:`_current`).
     """
     enthalpy = which == "enthalpy"
     tolerance = Y_TOL * (abs(target) + Y_FLOOR[which])
@@ -166,12 +213,14 @@ def pressure_and(
     ad_of, add_of, adt_of = state.dalphar_dDelta, state.d2alphar_dDelta2, \
         state.d2alphar_dDelta_dTau
     cv_of = state.cvmass
-    evaluated = _is_at(state, temperature, rho, phase)  # the start is the state's last evaluation
+    current = _current(state, temperature, rho, phase) if handed_over else None
+    if current is not None:
+        temperature, rho = current
     state.specify_phase(phase)
     try:
         for _ in range(MAX_STEPS):
-            if evaluated:
-                evaluated = False
+            if current is not None:
+                current = None  # the state is already evaluated there
             else:
                 update(_DT, rho, temperature)
             delta = rho / rho_r
@@ -183,7 +232,7 @@ def pressure_and(
             if b <= 0.0 or p <= 0.0:
                 raise FlashFailure("mechanically unstable state")
             if abs(p - pressure) <= p_tolerance and abs(f2) <= tolerance:
-                return
+                return Point(temperature, rho, state.hmass(), state.smass())
             a = rho * r_mass * (1.0 + delta * (ad - t_r / temperature * adt_of()))  # dp/dT
             cv = cv_of()
             if enthalpy:
@@ -206,7 +255,13 @@ def pressure_and(
             d_t = (f1 * j22 - j12 * f2) / det
             d_rho = (j11 * f2 - j21 * f1) / det
             if abs(d_t) <= STEP_TOL and abs(d_rho) <= STEP_TOL:
-                return  # the state evaluated is within STEP_TOL of the root
+                return Point(temperature, rho, state.hmass(), state.smass())
+            if abs(d_t) <= LAST_STEP_TOL and abs(d_rho) <= LAST_STEP_TOL:
+                if liquid:
+                    new_t, new_rho = temperature * (1.0 - d_t), rho * (1.0 - d_rho)
+                else:
+                    new_t, new_rho = temperature * math.exp(-d_t), rho * math.exp(-d_rho)
+                return _last_step(state, temperature, rho, new_t, new_rho, a, b, cv)
             scale = 1.0
             if abs(d_t) > 0.3:
                 scale = 0.3 / abs(d_t)

@@ -457,8 +457,9 @@ class PropertyModel:
         return self._snapshot(state, state.Qmass(), "two_phase")
 
     def _table(self) -> properties_tables.BlendTable | None:
-        """The blend's fitted saturation (built by ``heatlift warm-tables``), if any."""
-        if not self.is_mixture:
+        """The blend's fitted saturation (built by ``heatlift warm-tables``), if any (blends
+        built from components and the pseudo-pure blends; pure fluids have none)."""
+        if not self.refrigerant.is_blend:
             return None
         return properties_tables.table_for(self.name)
 
@@ -614,7 +615,8 @@ class PropertyModel:
         state = self._state()
         branch = {"superheated_vapor": "vapor", "subcooled_liquid": "liquid"}.get(phase, "any")
         try:
-            flash.density_at(state, pressure, temperature, rho, flag, branch, self._constants)
+            point = flash.density_at(state, pressure, temperature, rho, flag, branch,
+                                     self._constants)
         except flash.FlashFailure as exc:
             if self.is_mixture:
                 raise NotConverged(
@@ -623,13 +625,12 @@ class PropertyModel:
                 ) from exc
             # the library's flash, finding the phase itself above the critical pressure (an
             # imposed supercritical phase below T_c lands on a metastable root there)
-            state = self._update(CP.PT_INPUTS, pressure, temperature,
-                                 None if phase == "supercritical" else flag)
-        return self._single_phase_state(state, pressure, phase)
+            point = _point(self._update(CP.PT_INPUTS, pressure, temperature,
+                                        None if phase == "supercritical" else flag))
+        return self._single_phase_state(point, pressure, phase)
 
-    def _single_phase_state(self, state: CP.AbstractState, pressure: float, phase: str
-                            ) -> State:
-        """The solved single-phase ``state`` at the asked ``pressure`` [Pa].
+    def _single_phase_state(self, point: flash.Point, pressure: float, phase: str) -> State:
+        """The solved single-phase ``point`` at the asked ``pressure`` [Pa].
 
         The pressure written is the one asked for: the solve leaves the density within 1e-9
         of the root, where a liquid's own pressure (its bulk modulus times that) can still be
@@ -637,13 +638,13 @@ class PropertyModel:
         below it, hotter than the critical temperature, it is a superheated vapour (the
         trade's word for it).
         """
-        temperature = state.T()
+        temperature = point.temperature
         if pressure >= self.critical_pressure:
             phase = "supercritical"
         elif phase == "supercritical":
             phase = "superheated_vapor" if temperature >= self.critical_temperature else \
                 "subcooled_liquid"
-        return State(pressure, temperature, state.hmass(), state.smass(), state.rhomass(), None,
+        return State(pressure, temperature, point.enthalpy, point.entropy, point.density, None,
                      phase)
 
     def _density_guess(self, pressure: float, temperature: float, phase: str) -> float:
@@ -669,14 +670,14 @@ class PropertyModel:
             z_dew = pressure / (sat.density * r_mass * sat.temperature)
             z = 1.0 - (1.0 - z_dew) * (sat.temperature / temperature) ** 2.5
             return pressure / (z * r_mass * temperature)
-        if not self.is_mixture and temperature >= self.limits.temperature_min:
+        table = self._table()
+        if table is None and temperature >= self.limits.temperature_min:
             # compressed from its saturation pressure at constant isothermal compressibility
             # kappa_T: rho = rho_sat exp(kappa_T (p - p_sat)), a start within about 1e-8
             state = self._update(CP.QT_INPUTS, 0.0, temperature)
             kappa = state.saturated_liquid_keyed_output(CP.iisothermal_compressibility)
             return state.rhomass() * math.exp(min(0.5, kappa * (pressure - state.p())))
         bubble = self.saturated_at_pressure(pressure, 0.0)
-        table = self._table()
         if table is not None and table.covers(pressure):
             # expanded from the bubble point along the saturated liquid line of the table
             beta = table.liquid_expansion(pressure)
@@ -709,27 +710,28 @@ class PropertyModel:
             guess = (temperature, self._density_guess(pressure, temperature, phase))
         state = self._state()
 
-        def solve(guess: tuple[float, float]) -> None:
-            flash.pressure_and(state, pressure, target, which, guess[0], guess[1], flag,
-                               self._constants)
+        def solve(guess: tuple[float, float], handed_over: bool = False) -> flash.Point:
+            point = flash.pressure_and(state, pressure, target, which, guess[0], guess[1],
+                                       flag, self._constants, handed_over)
             wrong_side = start is not None and (
-                state.T() < start.temperature if phase == "superheated_vapor"
-                else state.T() > start.temperature)
+                point.temperature < start.temperature if phase == "superheated_vapor"
+                else point.temperature > start.temperature)
             if wrong_side:
                 raise flash.FlashFailure("converged on the other side of saturation")
-            if start is None and not self.is_mixture and self._metastable(state):
+            if start is None and not self.is_mixture and self._metastable(point):
                 raise flash.FlashFailure("converged on a metastable root")
+            return point
 
         try:
             try:
-                solve(guess)
+                point = solve(guess, near is not None)
             except flash.FlashFailure:
                 if self.is_mixture or phase != "subcooled_liquid" or start is None:
                     raise
                 # a liquid far colder than its bubble point (near the critical pressure the
                 # bubble point's density is far from the cold liquid's): start on the
                 # saturated liquid line where the property is the target
-                solve(self._liquid_line_start(pressure, target, which, start.temperature))
+                point = solve(self._liquid_line_start(pressure, target, which, start.temperature))
         except flash.FlashFailure as exc:
             if self.is_mixture:
                 raise NotConverged(
@@ -738,8 +740,8 @@ class PropertyModel:
                 ) from exc
             pair = CP.HmassP_INPUTS if which == "enthalpy" else CP.PSmass_INPUTS
             a, b = (target, pressure) if which == "enthalpy" else (pressure, target)
-            state = self._update(pair, a, b)
-        return self._single_phase_state(state, pressure, phase)
+            point = _point(self._update(pair, a, b))
+        return self._single_phase_state(point, pressure, phase)
 
     def _liquid_line_start(self, pressure: float, target: float, which: str,
                            t_bubble: float) -> tuple[float, float]:
@@ -770,10 +772,10 @@ class PropertyModel:
         kappa = st.saturated_liquid_keyed_output(CP.iisothermal_compressibility)
         return t, st.rhomass() * math.exp(min(0.5, kappa * (pressure - st.p())))
 
-    def _metastable(self, state: CP.AbstractState) -> bool:
+    def _metastable(self, point: flash.Point) -> bool:
         """A pure fluid above its critical pressure but below its critical temperature is
         stable only denser than its saturated liquid at that temperature."""
-        temperature, rho = state.T(), state.rhomass()
+        temperature, rho = point.temperature, point.density
         if temperature >= self.critical_temperature or \
                 temperature < self.limits.temperature_min:
             return False
@@ -1079,6 +1081,11 @@ def _component_viscosity(
         return state.viscosity(), molar_mass
     finally:
         state.unspecify_phase()
+
+
+def _point(state: CP.AbstractState) -> flash.Point:
+    """The single-phase point the library's own flash left ``state`` at."""
+    return flash.Point(state.T(), state.rhomass(), state.hmass(), state.smass())
 
 
 def _mixed(bubble: State, dew: State, quality: float) -> State:

@@ -82,15 +82,39 @@ def _basis(t: float, n: int) -> np.ndarray:
     return np.cos(np.arange(n + 1) * math.acos(max(-1.0, min(1.0, t))))
 
 
+_SAMPLES = 65  # samples of each saturation line per interval, for pressure_at's start
+
+
+def _series_and_slope(t: float, coefficients: list[float]) -> tuple[float, float]:
+    """sum c_k T_k(t) and its derivative sum c_k k U_(k-1)(t), by the three-term recurrences
+    T_(k+1) = 2 t T_k - T_(k-1) and U_(k+1) = 2 t U_k - U_(k-1) (U the Chebyshev polynomials of
+    the second kind; exact at the ends too)."""
+    two_t = 2.0 * t
+    t_prev, t_k = 1.0, t  # T_0, T_1
+    u_prev, u_k = 0.0, 1.0  # U_-1, U_0
+    value = coefficients[0] + coefficients[1] * t
+    slope = coefficients[1]
+    for k in range(2, len(coefficients)):
+        t_prev, t_k = t_k, two_t * t_k - t_prev
+        u_prev, u_k = u_k, two_t * u_k - u_prev
+        c = coefficients[k]
+        value += c * t_k
+        slope += c * k * u_k
+    return value, slope
+
+
 def _basis_and_slope(t: float, n: int) -> tuple[np.ndarray, np.ndarray]:
-    """T_k(t) and dT_k/dt = k sin(k theta) / sin(theta), t = cos(theta) (k^2 (+-1)^(k+1) at the
-    ends)."""
-    k = np.arange(n + 1)
-    if t >= 1.0 - 1e-12 or t <= -1.0 + 1e-12:
-        sign = 1.0 if t > 0 else -1.0
-        return sign ** k, k * k * sign ** (k + 1)
-    theta = math.acos(t)
-    return np.cos(k * theta), k * np.sin(k * theta) / math.sin(theta)
+    """(T_0(t) ... T_n(t)) and their derivatives dT_k/dt = k U_(k-1)(t), by the recurrences of
+    :func:`_series_and_slope`."""
+    two_t = 2.0 * t
+    ts, slopes = [1.0, t], [0.0, 1.0]
+    t_prev, t_k, u_prev, u_k = 1.0, t, 0.0, 1.0
+    for k in range(2, n + 1):
+        t_prev, t_k = t_k, two_t * t_k - t_prev
+        u_prev, u_k = u_k, two_t * u_k - u_prev
+        ts.append(t_k)
+        slopes.append(k * u_k)
+    return np.array(ts), np.array(slopes)
 
 
 # -- the table of one blend ---------------------------------------------------------------------
@@ -122,26 +146,33 @@ class BlendTable:
         self.x_min, self.x_max = intervals[0].a, intervals[-1].b
         self.pressure_min, self.pressure_max = math.exp(self.x_min), math.exp(self.x_max)
         self._edges = [iv.a for iv in intervals]
-        # bubble (column 0) and dew (column 4) temperatures at every interval's ends, for
-        # pressure_at's start: T_k(+-1) = (+-1)^k
-        signs = np.array([(-1.0) ** k for k in range(NX + 1)])
-        self._t_ends = {
-            column: ([float(signs @ iv.line[:, column]) for iv in intervals]
-                     + [float(np.sum(intervals[-1].line[:, column]))])
-            for column in (0, 4)}
+        # the bubble (column 0) and dew (column 4) lines sampled densely, (T, x) in rising
+        # order, for pressure_at's start: linear interpolation in them is within about 1e-6
+        # in ln p of the series' own inverse
+        t = np.linspace(-1.0, 1.0, _SAMPLES)
+        basis = np.cos(np.outer(np.arccos(t), np.arange(NX + 1)))
+        self._samples: dict[int, tuple[list[float], list[float]]] = {}
+        for column in (0, 4):
+            ts: list[float] = []
+            xs: list[float] = []
+            for iv in intervals:
+                start = 1 if xs else 0  # an interval's first sample is the last one's end
+                ts += (basis @ iv.line[:, column])[start:].tolist()
+                xs += (iv.a + (t[start:] + 1.0) * 0.5 * (iv.b - iv.a)).tolist()
+            self._samples[column] = (ts, xs)
+        # the two lines' temperature series as plain lists, for pressure_at's Newton steps
+        self._columns = {column: [iv.line[:, column].tolist() for iv in intervals]
+                         for column in (0, 4)}
 
     def covers(self, pressure: float) -> bool:
         return self.pressure_min <= pressure <= self.pressure_max
 
+    def _interval_index(self, x: float) -> int:
+        """The last interval whose start is <= x (the first for x below them all)."""
+        return max(0, bisect.bisect_right(self._edges, x) - 1)
+
     def _interval(self, x: float) -> Interval:
-        lo, hi = 0, len(self.intervals) - 1
-        while lo < hi:  # the last interval whose start is <= x
-            mid = (lo + hi + 1) // 2
-            if self._edges[mid] <= x:
-                lo = mid
-            else:
-                hi = mid - 1
-        return self.intervals[lo]
+        return self.intervals[self._interval_index(x)]
 
     def lines(self, pressure: float) -> tuple[tuple[float, float, float, float],
                                               tuple[float, float, float, float]]:
@@ -192,7 +223,7 @@ class BlendTable:
                 return None
             step = error / derivative
             q_molar = min(1.0, max(0.0, q_molar - step))
-            if abs(step) <= 1e-14:
+            if abs(step) <= 1e-11:  # and far below that after this last step
                 break
         else:
             return None
@@ -209,28 +240,30 @@ class BlendTable:
         column = 4 if dew else 0
 
         def line_t(x: float) -> tuple[float, float]:
-            iv = self._interval(x)
+            k = self._interval_index(x)
+            iv = self.intervals[k]
             scale = 2.0 / (iv.b - iv.a)
-            basis, slope = _basis_and_slope((2.0 * x - iv.a - iv.b) * scale / 2.0, NX)
-            coefficients = iv.line[:, column]
-            return float(basis @ coefficients), float(slope @ coefficients) * scale
+            value, slope = _series_and_slope((2.0 * x - iv.a - iv.b) * scale / 2.0,
+                                             self._columns[column][k])
+            return value, slope * scale
 
-        ends = self._t_ends[column]
-        if not ends[0] <= temperature <= ends[-1]:
+        ts, xs = self._samples[column]
+        if not ts[0] <= temperature <= ts[-1]:
             return None
-        # T rises with ln p along a saturation line: the interval whose end temperatures
-        # bracket it, and a secant start between those ends
-        k = min(bisect.bisect_right(ends, temperature), len(self.intervals)) - 1
-        iv, t_a, t_b = self.intervals[k], ends[k], ends[k + 1]
-        x = iv.a + (temperature - t_a) / (t_b - t_a) * (iv.b - iv.a) if t_b > t_a else iv.a
+        # T rises with ln p along a saturation line: linear interpolation between the samples
+        # that bracket it, then Newton steps on the series
+        k = min(bisect.bisect_right(ts, temperature), len(ts) - 1)
+        t_a, t_b = ts[k - 1], ts[k]
+        x = xs[k - 1] + (temperature - t_a) / (t_b - t_a) * (xs[k] - xs[k - 1]) \
+            if t_b > t_a else xs[k]
         for _ in range(40):
             value, slope = line_t(x)
             if slope <= 0.0:
                 return None
             step = (value - temperature) / slope
             x = min(self.x_max, max(self.x_min, x - step))
-            if abs(step) <= 1e-13:  # ln p: the pressure to 1e-13 relative
-                return math.exp(x)
+            if abs(step) <= 1e-7:  # ln p: after a step this short the pressure is within
+                return math.exp(x)  # its square (1e-14) of the series' root
         return None
 
     # -- storage -----------------------------------------------------------------------------
@@ -251,13 +284,19 @@ class BlendTable:
 # -- building -----------------------------------------------------------------------------------
 
 def _blends() -> dict[str, tuple[tuple[str, ...], list[float]]]:
-    """Catalogue blends built from components: name -> (library fluids, mole fractions)."""
+    """Catalogue blends: name -> (library fluids, mole fractions). The blends built from
+    components, and the library's pseudo-pure blends (R404A, R407C, R410A, R507A: one fluid,
+    fraction 1), whose saturation flashes have no fast path in the library (10 to 20 us each,
+    against about half a microsecond for a pure fluid)."""
     from heatlift.refrigerants import catalogue
 
-    out = {}
+    out: dict[str, tuple[tuple[str, ...], list[float]]] = {}
     for name, entry in catalogue().items():
         fluids = entry.coolprop_fluids
+        if not entry.is_blend:
+            continue
         if len(fluids) < 2:
+            out[name] = (fluids, [1.0])
             continue
         masses = [entry.composition[c] for c in entry.composition]
         molar = [CP.AbstractState("HEOS", f).molar_mass() for f in fluids]

@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from functools import lru_cache
 
@@ -212,9 +213,9 @@ class UnitContext:
     system: str = "SI"
     overrides: dict[str, str] = field(default_factory=dict)
     atmospheric_pressure: float = STANDARD_ATMOSPHERE
-    # kind -> (output unit, its map), filled as results are rendered (a result renders the
-    # same few kinds dozens of times)
-    _outputs: dict[str, tuple[str, AffineMap]] = field(
+    # kind -> renderer in its output unit, filled as results are rendered (a result renders
+    # the same few kinds dozens of times)
+    _renderers: dict[str, Callable[[float], dict[str, object]]] = field(
         default_factory=dict, compare=False, repr=False)
 
     def output_unit(self, kind: str) -> str:
@@ -251,27 +252,40 @@ class UnitContext:
     def render(self, value: float, kind: str, unit: str | None = None) -> dict[str, object]:
         """``{"value", "unit"}`` for an SI value; non-finite values are written as null."""
         if not unit:
-            found = self._outputs.get(kind)
-            if found is None:
-                chosen = self.output_unit(kind)
-                found = self._outputs[kind] = (chosen, affine_map(chosen, kind))
-            unit, m = found
-        else:
+            return self.renderer(kind)(value)
+        return _rendered(value, unit, affine_map(unit, kind), self.atmospheric_pressure)
+
+    def renderer(self, kind: str) -> Callable[[float], dict[str, object]]:
+        """:meth:`render` for ``kind`` in its output unit, as one function (kept per kind)."""
+        found = self._renderers.get(kind)
+        if found is None:
+            unit = self.output_unit(kind)
             m = affine_map(unit, kind)
-        if m.gauge:  # the arithmetic of from_si
-            value -= self.atmospheric_pressure
-        out = (value - m.offset) / m.scale
-        if not math.isfinite(out):
-            return {"value": None, "unit": unit}
-        # 15 significant digits: free of the last-bit
-        # noise of a division (3.7299999999999995 mm is written 3.73 mm)
-        return {"value": float(f"{out:.15g}"), "unit": unit}
+            atmosphere = self.atmospheric_pressure
+
+            def found(value: float) -> dict[str, object]:
+                return _rendered(value, unit, m, atmosphere)
+            self._renderers[kind] = found
+        return found
 
     def text(self, value: float, kind: str) -> str:
         """A value as text in the caller's units, for error details: ``'-40 degF'``."""
         unit = self.output_unit(kind)
         number = self.from_si(value, kind, unit)
         return f"{number:.6g} {unit}" if unit != "1" else f"{number:.6g}"
+
+
+def _rendered(value: float, unit: str, m: AffineMap, atmosphere: float) -> dict[str, object]:
+    """``{"value", "unit"}`` of the SI ``value`` in ``unit`` (map ``m``; ``atmosphere`` [Pa]
+    for a gauge unit), by the arithmetic of :meth:`UnitContext.from_si`."""
+    if m.gauge:
+        value -= atmosphere
+    out = (value - m.offset) / m.scale
+    if not math.isfinite(out):
+        return {"value": None, "unit": unit}
+    # 15 significant digits: free of the last-bit noise of a division (3.7299999999999995 mm
+    # is written 3.73 mm)
+    return {"value": float(f"{out:.15g}"), "unit": unit}
 
 
 def check_override(kind: str, unit: str) -> None:

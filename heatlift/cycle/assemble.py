@@ -18,7 +18,7 @@ from heatlift.properties import PropertyModel, State
 PRESSURE_RATIO_LIMIT = 8.0  # one reciprocating or scroll stage, common practice
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class PerKilogram:
     """A circuit solved for 1 kg/s of evaporator flow [J/kg of evaporator flow, K, Pa, 1].
 

@@ -10,7 +10,7 @@ from heatlift.errors import InvalidInput, SIValue
 from heatlift.properties import PropertyModel, State
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class LowSide:
     """Evaporator outlet, the vapour after the suction line [SI], and the heat it picked up."""
 
@@ -39,7 +39,7 @@ def low_side(m: PropertyModel, spec: CycleSpec) -> LowSide:
     return LowSide(p_out, p_in, evap_out, after, after.enthalpy - evap_out.enthalpy)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class HighSide:
     """Condenser inlet and outlet pressures, compressor discharge pressure [Pa]."""
 

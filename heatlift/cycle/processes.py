@@ -93,7 +93,7 @@ def drop_in_pressure(
     return pressure - m.saturated_at_temperature(t_dew - drop.saturation_temperature, 1.0).pressure
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Compression:
     """A compression from ``suction`` to ``discharge`` with the specific work input [J/kg]."""
 

@@ -31,7 +31,7 @@ LABELS = (
 )
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class CyclePoint:
     """A state at a labelled place in the circuit, with the mass flow through it [kg/s]."""
 
@@ -40,7 +40,7 @@ class CyclePoint:
     mass_flow: float
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Performance:
     """Cycle performance [W, kg/s, m^3/s, J/m^3, K, Pa, 1].
 
@@ -71,7 +71,7 @@ class Performance:
     energy_balance_residual: float
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class CycleResult:
     refrigerant: str
     circuit: str

@@ -17,7 +17,6 @@ more threads than workers, bounded in count and in time, loopback only.
 
 from __future__ import annotations
 
-import json
 import os
 import random
 import statistics
@@ -98,8 +97,9 @@ def cycle_body(rng: random.Random) -> dict:
     }
 
 
-def throughput(url: str, threads: int = 6, seconds: float = 8.0) -> tuple[Load, Load]:
-    """(cycle, health), each for ``seconds``, cycle first and health after, then again."""
+def throughput(url: str, threads: int = 6, seconds: float = 8.0, rounds: int = 4
+               ) -> tuple[Load, Load]:
+    """(cycle, health), each for ``seconds`` in all, taking turns ``rounds`` times."""
     def post_cycle(rng: random.Random, s: requests.Session) -> requests.Response:
         return s.post(url + "/v1/cycle", json=cycle_body(rng), timeout=30)
 
@@ -107,9 +107,9 @@ def throughput(url: str, threads: int = 6, seconds: float = 8.0) -> tuple[Load, 
         return s.get(url + "/v1/health", timeout=30)
 
     runs = {"cycle": [], "health": []}
-    for _ in range(2):  # alternate so that drift of the machine's load hits both
-        runs["cycle"].append(load(url, post_cycle, threads, seconds / 2, 20_000))
-        runs["health"].append(load(url, get_health, threads, seconds / 2, 20_000))
+    for _ in range(rounds):  # alternate so that drift of the machine's load hits both
+        runs["cycle"].append(load(url, post_cycle, threads, seconds / rounds, 20_000))
+        runs["health"].append(load(url, get_health, threads, seconds / rounds, 20_000))
     return merge(runs["cycle"]), merge(runs["health"])
 
 
@@ -131,8 +131,10 @@ class Split:
 def request_split(samples: int = 200) -> Split:
     """Median per-request CPU time [s] of each stage of POST /v1/cycle, in-process: the
     request schema's load (unit parsing, validation), the engine's solve, the reply schema's
-    dump (unit rendering) and the JSON encoding. The meta block needs an app context."""
+    dump (unit rendering) and the JSON encoding, each as the service does it (shared schema
+    instances, the compiled dump, orjson). The meta block needs an app context."""
     from api import create_app
+    from api.encoding import to_json
     from api.output import reply, schema_instance
     from heatlift import cycle
     from schemas.cycle import CycleRequestSchema, CycleResultSchema
@@ -153,7 +155,7 @@ def request_split(samples: int = 200) -> Split:
             t2 = clock()
             dumped = dump(result_schema, result)
             t3 = clock()
-            json.dumps(dumped)
+            to_json(dumped)
             t4 = clock()
             stages["schema_load"].append(t1 - t0)
             stages["physics"].append(t2 - t1)
