@@ -103,20 +103,6 @@ def _series_and_slope(t: float, coefficients: list[float]) -> tuple[float, float
     return value, slope
 
 
-def _basis_and_slope(t: float, n: int) -> tuple[np.ndarray, np.ndarray]:
-    """(T_0(t) ... T_n(t)) and their derivatives dT_k/dt = k U_(k-1)(t), by the recurrences of
-    :func:`_series_and_slope`."""
-    two_t = 2.0 * t
-    ts, slopes = [1.0, t], [0.0, 1.0]
-    t_prev, t_k, u_prev, u_k = 1.0, t, 0.0, 1.0
-    for k in range(2, n + 1):
-        t_prev, t_k = t_k, two_t * t_k - t_prev
-        u_prev, u_k = u_k, two_t * u_k - u_prev
-        ts.append(t_k)
-        slopes.append(k * u_k)
-    return np.array(ts), np.array(slopes)
-
-
 # -- the table of one blend ---------------------------------------------------------------------
 
 @dataclass(frozen=True)
@@ -160,9 +146,10 @@ class BlendTable:
                 ts += (basis @ iv.line[:, column])[start:].tolist()
                 xs += (iv.a + (t[start:] + 1.0) * 0.5 * (iv.b - iv.a)).tolist()
             self._samples[column] = (ts, xs)
-        # the two lines' temperature series as plain lists, for pressure_at's Newton steps
+        # the two lines' temperature series (and the bubble line's ln v) as plain lists, for
+        # the Newton steps of pressure_at and the slopes of liquid_expansion
         self._columns = {column: [iv.line[:, column].tolist() for iv in intervals]
-                         for column in (0, 4)}
+                         for column in (0, 3, 4)}
 
     def covers(self, pressure: float) -> bool:
         return self.pressure_min <= pressure <= self.pressure_max
@@ -188,9 +175,11 @@ class BlendTable:
         thermal expansion, from the slopes of the ln v and T series in x = ln p (a start for
         the subcooled liquid's density)."""
         x = math.log(pressure)
-        iv = self._interval(x)
-        _, slope = _basis_and_slope((2.0 * x - iv.a - iv.b) / (iv.b - iv.a), NX)
-        d_t, d_lv = float(slope @ iv.line[:, 0]), float(slope @ iv.line[:, 3])
+        k = self._interval_index(x)
+        iv = self.intervals[k]
+        t = (2.0 * x - iv.a - iv.b) / (iv.b - iv.a)
+        _, d_t = _series_and_slope(t, self._columns[0][k])
+        _, d_lv = _series_and_slope(t, self._columns[3][k])
         return d_lv / d_t if d_t > 0.0 else 0.0
 
     def two_phase(self, pressure: float, which: int, target: float
@@ -212,13 +201,12 @@ class BlendTable:
             goal = (target - bub[which]) / (dew[which] - bub[which])
         if not -1e-12 <= goal <= 1.0 + 1e-12:
             return None
-        row = rows[:, which]
+        row = rows[:, which].tolist()
         q_molar = goal
         for _ in range(30):
-            t = 2.0 * q_molar - 1.0
-            basis, slope = _basis_and_slope(t, NQ)
-            error = float(basis @ row) - goal
-            derivative = 2.0 * float(slope @ row)
+            value, slope = _series_and_slope(2.0 * q_molar - 1.0, row)
+            error = value - goal
+            derivative = 2.0 * slope
             if derivative <= 0.0:
                 return None
             step = error / derivative

@@ -54,7 +54,8 @@ def main(argv: list[str]) -> int:
 
     proc, url = service.serve_for_benchmarks()
     try:
-        cyc, health = service.throughput(url, seconds=4.0 if quick else 8.0)
+        cyc, health = service.throughput(url, seconds=4.0 if quick else 12.0,
+                                         rounds=2 if quick else 6)
         ratio = cyc.requests_per_second / health.requests_per_second
         print("Target 3: HTTP, POST /v1/cycle throughput / GET /v1/health (>= 0.7)")
         print(f"  cycle  {cyc.requests_per_second:7.1f}/s  p50 {cyc.p50 * 1e3:6.1f} ms  p99 "
