@@ -7,14 +7,20 @@ and ``warm-tables`` build what the engine keeps, once, at install or image build
 from __future__ import annotations
 
 import argparse
+import importlib.util
 import multiprocessing
 import os
 import sys
-from importlib import resources
+from pathlib import Path
 
 
 def _serve(args: argparse.Namespace) -> int:
-    config = str(resources.files("api").joinpath("gunicorn_conf.py"))
+    # found without importing the api package: that would load the property library (seconds)
+    # in this process, which exec then throws away
+    spec = importlib.util.find_spec("api")
+    if spec is None or spec.origin is None:
+        raise SystemExit("the api package is not installed")
+    config = str(Path(spec.origin).parent / "gunicorn_conf.py")
     argv = [sys.executable, "-m", "gunicorn", "--config", config]
     if args.bind:
         argv += ["--bind", args.bind]

@@ -222,7 +222,12 @@ class PropertyModel:
         if table is not None:
             found = table.pressure_at(temperature, quality == 1.0)
             if found is not None:
-                return self.saturated_at_pressure(found, quality)
+                # the pressure whose saturation temperature is the one asked (to 1e-13): that
+                # state, with the temperature as asked rather than its last-digit echo
+                point = self.saturated_at_pressure(found, quality)._replace(
+                    temperature=temperature)
+                self._remember_saturation(point)
+                return point
         state = self._update(CP.QT_INPUTS, quality, temperature)
         if not self.is_mixture:
             if self._one_temperature:
