@@ -3,13 +3,17 @@
 Each refrigerant gets one :class:`PropertyModel`, which keeps one CoolProp ``AbstractState``
 (Helmholtz-energy equation of state, backend ``HEOS``) per thread, created on first use.
 
-Pure fluids and the pseudo-pure blends that CoolProp ships (R404A, R407C, R410A, R507A) are
-flashed directly. Blends built from their components are mixtures of fixed composition; their
-general flashes from pressure and enthalpy or entropy cost hundreds of milliseconds, so this
-module finds the phase from the bubble and dew points at the pressure first and then either
-imposes the single phase (an evaluation in temperature and pressure takes microseconds) and
-solves for temperature by Newton steps, or solves the two-phase state for the quality with a
-bounded secant iteration on saturation flashes.
+A state from the pressure and one more property is found by locating the phase from the
+bubble and dew points at the pressure first, then either solving the single phase by Newton
+steps on the equation of state with the phase imposed (:mod:`heatlift.flash`: an evaluation
+at temperature and density takes microseconds, where the library's general flashes take tens
+of microseconds for a pure fluid and hundreds of milliseconds for a mixture), or the
+two-phase state: for a pure fluid and the library's pseudo-pure blends (R404A, R407C, R410A,
+R507A) mixed linearly from the bubble and dew points, for a blend built from its components
+from its fitted table or by a bounded iteration on the library's saturation flashes.
+Saturation comes from the library's superancillary functions for pure fluids and from the
+fitted tables (:mod:`heatlift.properties_tables`) for every blend; without tables, from the
+library's flashes.
 
 All values are SI base units: K, Pa, J/kg, J/kg/K, kg/m^3.
 """
