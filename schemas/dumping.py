@@ -8,7 +8,7 @@ up once per dump), so the schema stays the one description of the output
 (names, units, nesting, OpenAPI) and the result is exactly what ``Schema.dump`` gives:
 
 - a :class:`~schemas.fields.Quantity` renders its SI value in the request's units;
-- a ``Nested`` or a ``List`` of ``Nested`` uses the nested schema's own dumper;
+- a ``Nested`` or a ``List`` of ``Nested`` uses the nested schema's own plan;
 - a plain String, Float, Integer, Boolean or Raw field formats its value itself;
 - every other field goes through its own ``serialize`` (Method, Function, custom fields);
 - a schema with ``pre_dump`` or ``post_dump`` hooks is dumped by marshmallow itself.
@@ -29,7 +29,6 @@ from marshmallow.utils import get_value
 from schemas.fields import Quantity, current_units
 from schemas.units import UnitContext
 
-Dump = Callable[[Any], Any]
 # the compiled form: a function of the object and of the request's unit context, which is
 # looked up once per dump rather than once per quantity
 Plan = Callable[[Any, UnitContext], Any]
@@ -39,12 +38,6 @@ _KEPT = "_heatlift_plan"
 def dump(schema: Schema, obj: Any) -> Any:
     """``schema.dump(obj)``, by the schema's compiled plan, in the request's units."""
     return plan(schema)(obj, current_units())
-
-
-def dumper(schema: Schema) -> Dump:
-    """``schema``'s compiled dump as a function of the object alone (the request's units)."""
-    compiled = plan(schema)
-    return lambda obj: compiled(obj, current_units())
 
 
 def plan(schema: Schema) -> Plan:
