@@ -352,7 +352,7 @@ class PropertyModel:
         self.check_equation_range(pressure, temperature)
         if pressure >= self.critical_pressure or temperature >= self.critical_temperature:
             return self._single_phase_pt(pressure, temperature, "supercritical")
-        self.check_saturation_pressure(pressure)
+        # (saturated_at_pressure checks the saturation range of the pressure)
         bubble = self.saturated_at_pressure(pressure, 0.0)
         dew = self.saturated_at_pressure(pressure, 1.0)
         if temperature > dew.temperature:
@@ -550,7 +550,7 @@ class PropertyModel:
         if pressure >= self.critical_pressure:
             return self._spanned_solve(pressure, target, which, "supercritical", None,
                                        "supercritical", "supercritical", near)
-        self.check_saturation_pressure(pressure)
+        # (saturated_at_pressure checks the saturation range of the pressure)
         bubble = self.saturated_at_pressure(pressure, 0.0)
         dew = self.saturated_at_pressure(pressure, 1.0)
         if target > prop(dew):

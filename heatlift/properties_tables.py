@@ -215,7 +215,7 @@ class BlendTable:
                 return None
             step = error / derivative
             q_molar = min(1.0, max(0.0, q_molar - step))
-            if abs(step) <= 1e-11:  # and far below that after this last step
+            if abs(step) <= 1e-6:  # after a step this short, within about its square (1e-12)
                 break
         else:
             return None
@@ -254,8 +254,8 @@ class BlendTable:
                 return None
             step = (value - temperature) / slope
             x = min(self.x_max, max(self.x_min, x - step))
-            if abs(step) <= 1e-7:  # ln p: after a step this short the pressure is within
-                return math.exp(x)  # its square (1e-14) of the series' root
+            if abs(step) <= 1e-5:  # ln p: after a step this short the pressure is within
+                return math.exp(x)  # about its square (1e-10) of the series' root
         return None
 
     # -- storage -----------------------------------------------------------------------------
