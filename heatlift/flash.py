@@ -8,10 +8,12 @@ Given a starting point close to the answer, Newton's method on
 
     p(T, rho) = p*,    y(T, rho) = y*        (y = h or s)
 
-with the 2x2 Jacobian of the equation of state's own partial derivatives converges
-quadratically in two to four evaluations to the state the general flash would find (both solve
-the same equations; this one to a tighter tolerance). The pressure-temperature pair needs only
-the density: Newton on p(T, rho) = p* at fixed T.
+with the 2x2 Jacobian of the equation of state's own partial derivatives (in ln T and ln rho
+on ln p for a vapour, nearly linear there; in T and rho for a liquid) converges quadratically
+in one to four evaluations to the state the general flash would find (both solve the same
+equations; this one to a tighter tolerance). The last step, once shorter than LAST_STEP_TOL,
+is taken without evaluating its end: h and s there follow from the derivatives. The
+pressure-temperature pair needs only the density: Newton on p(T, rho) = p* at fixed T.
 
 Every solver takes a CoolProp ``AbstractState`` (any backend explicit in T and rho: ``HEOS``
 for pure fluids and for mixtures of fixed composition), returns the solved :class:`Point`
