@@ -132,7 +132,8 @@ def assemble(m: PropertyModel, spec: CycleSpec, solved: PerKilogram) -> CycleRes
     flow = evaporator_mass_flow(spec, solved)
     if not flow > 0.0:
         raise InvalidInput("the size must be positive", field="cooling_capacity")
-    points = tuple(CyclePoint(label, state, share * flow) for label, state, share in solved.states)
+    points = tuple([CyclePoint(label, state, share * flow)
+                    for label, state, share in solved.states])
     work = solved.work * flow
     cooling = solved.cooling * flow
     heating = solved.heating * flow

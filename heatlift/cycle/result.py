@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import NamedTuple
 
 from heatlift.errors import Remark
 from heatlift.properties import State
@@ -31,17 +32,19 @@ LABELS = (
 )
 
 
-@dataclass(frozen=True, slots=True)
-class CyclePoint:
-    """A state at a labelled place in the circuit, with the mass flow through it [kg/s]."""
+class CyclePoint(NamedTuple):
+    """A state at a labelled place in the circuit, with the mass flow through it [kg/s].
+
+    (Named tuples, like :class:`~heatlift.properties.State`, for the records a cycle builds
+    many of: immutable, and built in a fraction of a frozen dataclass's time.)
+    """
 
     label: str
     state: State
     mass_flow: float
 
 
-@dataclass(frozen=True, slots=True)
-class Performance:
+class Performance(NamedTuple):
     """Cycle performance [W, kg/s, m^3/s, J/m^3, K, Pa, 1].
 
     ``cop = cooling_capacity / compressor_power``; ``cop_heating = heating_capacity /
