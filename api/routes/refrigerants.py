@@ -11,6 +11,7 @@ from schemas.refrigerants import RefrigerantListSchema, RefrigerantReplySchema, 
 ORDER = 10
 blp = Blueprint("refrigerants", __name__, url_prefix="/v1/refrigerants",
                 description="The refrigerant catalogue")
+_EVERY = RefrigerantSchema(many=True)  # shared, as reply() shares the instances of classes
 
 
 @blp.route("")
@@ -19,7 +20,7 @@ class Catalogue(MethodView):
     @blp.response(200, RefrigerantListSchema)
     def get(self, _args):
         """Every refrigerant: kind, composition, safety class, GWP100, critical point."""
-        return reply(RefrigerantSchema(many=True), describe_all(), wrap="refrigerants")
+        return reply(_EVERY, describe_all(), wrap="refrigerants")
 
 
 @blp.route("/<designation>")
