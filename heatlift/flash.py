@@ -120,7 +120,7 @@ def density_at(
     between the spinodals, where dp/drho <= 0, is left towards lower density), ``"liquid"``
     or ``"any"``; ``fluid`` is :func:`constants` of the state.
     """
-    r_mass, _, rho_r, t_r = fluid
+    r_mass, _, rho_r, _ = fluid
     rt = r_mass * temperature
     tolerance = P_TOL * pressure
     log_target = math.log(pressure)
@@ -146,19 +146,31 @@ def density_at(
             if abs(p - pressure) <= tolerance or abs(step) <= STEP_TOL:
                 return Point(temperature, rho, state.hmass(), state.smass())
             if abs(step) <= LAST_STEP_TOL:
-                new_rho = rho * ((1.0 - step) if liquid else math.exp(-step))
-                a = rho * r_mass * (1.0 + delta * (ad - t_r / temperature
-                                                   * state.d2alphar_dDelta_dTau()))
-                return _last_step(state, temperature, rho, temperature, new_rho, a, slope)
-            step = max(-0.5, min(0.5, step))
-            rho *= (1.0 - step) if liquid else math.exp(-step)
+                a = _dp_dt(state, rho, temperature, delta, ad, fluid)
+                return _last_step(state, temperature, rho, temperature,
+                                  _moved(rho, step, liquid), a, slope)
+            rho = _moved(rho, max(-0.5, min(0.5, step)), liquid)
         raise FlashFailure(f"no density found at {pressure} Pa and {temperature} K")
-    except ValueError as exc:
-        if isinstance(exc, FlashFailure):
-            raise
+    except FlashFailure:
+        raise
+    except ValueError as exc:  # the library refused the evaluation
         raise FlashFailure(str(exc)) from exc
     finally:
         state.unspecify_phase()
+
+
+def _moved(value: float, step: float, linear: bool) -> float:
+    """``value`` moved by the relative Newton ``step``: value (1 - step) in the linear
+    variable, value exp(-step) in its logarithm."""
+    return value * (1.0 - step) if linear else value * math.exp(-step)
+
+
+def _dp_dt(state: CP.AbstractState, rho: float, temperature: float, delta: float, ad: float,
+           fluid: Fluid) -> float:
+    """dp/dT|rho [Pa/K] = rho R (1 + delta a^r_d - delta tau a^r_dt) at the state just
+    evaluated (``ad`` = a^r_d there, ``fluid`` :func:`constants`)."""
+    r_mass, _, _, t_r = fluid
+    return rho * r_mass * (1.0 + delta * (ad - t_r / temperature * state.d2alphar_dDelta_dTau()))
 
 
 def _last_step(state: CP.AbstractState, temperature: float, rho: float, new_t: float,
@@ -210,10 +222,9 @@ def pressure_and(
     p_tolerance = P_TOL * pressure
     log_target = math.log(pressure)
     liquid = phase == CP.iphase_liquid
-    r_mass, _, rho_r, t_r = fluid
+    r_mass, _, rho_r, _ = fluid
     update, y_of = state.update, (state.hmass if enthalpy else state.smass)
-    ad_of, add_of, adt_of = state.dalphar_dDelta, state.d2alphar_dDelta2, \
-        state.d2alphar_dDelta_dTau
+    ad_of, add_of = state.dalphar_dDelta, state.d2alphar_dDelta2
     cv_of = state.cvmass
     current = _current(state, temperature, rho, phase) if handed_over else None
     if current is not None:
@@ -235,7 +246,7 @@ def pressure_and(
                 raise FlashFailure("mechanically unstable state")
             if abs(p - pressure) <= p_tolerance and abs(f2) <= tolerance:
                 return Point(temperature, rho, state.hmass(), state.smass())
-            a = rho * r_mass * (1.0 + delta * (ad - t_r / temperature * adt_of()))  # dp/dT
+            a = _dp_dt(state, rho, temperature, delta, ad, fluid)
             cv = cv_of()
             if enthalpy:
                 c = cv + a / rho
@@ -259,26 +270,19 @@ def pressure_and(
             if abs(d_t) <= STEP_TOL and abs(d_rho) <= STEP_TOL:
                 return Point(temperature, rho, state.hmass(), state.smass())
             if abs(d_t) <= LAST_STEP_TOL and abs(d_rho) <= LAST_STEP_TOL:
-                if liquid:
-                    new_t, new_rho = temperature * (1.0 - d_t), rho * (1.0 - d_rho)
-                else:
-                    new_t, new_rho = temperature * math.exp(-d_t), rho * math.exp(-d_rho)
-                return _last_step(state, temperature, rho, new_t, new_rho, a, b, cv)
+                return _last_step(state, temperature, rho, _moved(temperature, d_t, liquid),
+                                  _moved(rho, d_rho, liquid), a, b, cv)
             scale = 1.0
             if abs(d_t) > 0.3:
                 scale = 0.3 / abs(d_t)
             if abs(d_rho) > 0.5:
                 scale = min(scale, 0.5 / abs(d_rho))
-            if liquid:
-                temperature *= 1.0 - scale * d_t
-                rho *= 1.0 - scale * d_rho
-            else:
-                temperature *= math.exp(-scale * d_t)
-                rho *= math.exp(-scale * d_rho)
+            temperature = _moved(temperature, scale * d_t, liquid)
+            rho = _moved(rho, scale * d_rho, liquid)
         raise FlashFailure(f"no state found at {pressure} Pa with that {which}")
-    except ValueError as exc:
-        if isinstance(exc, FlashFailure):
-            raise
+    except FlashFailure:
+        raise
+    except ValueError as exc:  # the library refused the evaluation
         raise FlashFailure(str(exc)) from exc
     finally:
         state.unspecify_phase()

@@ -681,11 +681,7 @@ class PropertyModel:
             return pressure / (z * r_mass * temperature)
         table = self._table()
         if table is None and temperature >= self.limits.temperature_min:
-            # compressed from its saturation pressure at constant isothermal compressibility
-            # kappa_T: rho = rho_sat exp(kappa_T (p - p_sat)), a start within about 1e-8
-            state = self._update(CP.QT_INPUTS, 0.0, temperature)
-            kappa = state.saturated_liquid_keyed_output(CP.iisothermal_compressibility)
-            return state.rhomass() * math.exp(min(0.5, kappa * (pressure - state.p())))
+            return self._compressed_liquid(temperature, pressure)
         bubble = self.saturated_at_pressure(pressure, 0.0)
         if table is not None and table.covers(pressure):
             # expanded from the bubble point along the saturated liquid line of the table
@@ -777,9 +773,16 @@ class PropertyModel:
                 else:
                     hi, f_hi = t, f
                     f_lo *= 0.5
-        st = self._update(CP.QT_INPUTS, 0.0, t)
-        kappa = st.saturated_liquid_keyed_output(CP.iisothermal_compressibility)
-        return t, st.rhomass() * math.exp(min(0.5, kappa * (pressure - st.p())))
+        return t, self._compressed_liquid(t, pressure)
+
+    def _compressed_liquid(self, temperature: float, pressure: float) -> float:
+        """The density [kg/m^3] of the liquid at ``temperature`` [K] and ``pressure`` [Pa],
+        estimated from the saturated liquid at the temperature compressed at its isothermal
+        compressibility kappa_T: rho = rho_sat exp(kappa_T (p - p_sat)), within about 1e-8
+        (a Newton start). Pure fluids and pseudo-pure blends."""
+        state = self._update(CP.QT_INPUTS, 0.0, temperature)
+        kappa = state.saturated_liquid_keyed_output(CP.iisothermal_compressibility)
+        return state.rhomass() * math.exp(min(0.5, kappa * (pressure - state.p())))
 
     def _metastable(self, point: flash.Point) -> bool:
         """A pure fluid above its critical pressure but below its critical temperature is

@@ -84,17 +84,6 @@ def _value(field: fields.Field, attr: str) -> Callable[[Any], Any]:
     return with_default
 
 
-def _quantity(field: Quantity, attr: str) -> Plan:
-    value_of, kind = _fast_value(field, attr), field.kind
-
-    def render(obj: Any, ctx: UnitContext) -> Any:
-        value = value_of(obj)
-        if value is missing or value is None:
-            return value
-        return ctx.renderer(kind)(float(value))
-    return render
-
-
 def _fast_value(field: fields.Field, attr: str) -> Callable[[Any], Any]:
     """:func:`_value`, by one C-level attribute lookup (dotted paths too) where the object
     has the attributes (engine results are dataclasses and named tuples); anything else
@@ -112,10 +101,20 @@ def _fast_value(field: fields.Field, attr: str) -> Callable[[Any], Any]:
     return value
 
 
-def _nested(field: fields.Nested, attr: str) -> Plan:
-    value_of = _value(field, attr)
-    inner = plan(field.schema)
-    each = field.many and not field.schema.many  # a many schema's plan takes the list
+def _quantity(field: Quantity, attr: str) -> Plan:
+    value_of, kind = _fast_value(field, attr), field.kind
+
+    def render(obj: Any, ctx: UnitContext) -> Any:
+        value = value_of(obj)
+        if value is missing or value is None:
+            return value
+        return ctx.renderer(kind)(float(value))
+    return render
+
+
+def _nested(field: fields.Field, attr: str, schema: Schema, each: bool) -> Plan:
+    """A nested object (``each``: a list of them) by ``schema``'s own plan."""
+    value_of, inner = _fast_value(field, attr), plan(schema)
 
     def nested(obj: Any, ctx: UnitContext) -> Any:
         value = value_of(obj)
@@ -123,19 +122,6 @@ def _nested(field: fields.Nested, attr: str) -> Plan:
             return value
         return [inner(v, ctx) for v in value] if each else inner(value, ctx)
     return nested
-
-
-def _nested_list(field: fields.List, attr: str) -> Plan:
-    value_of = _value(field, attr)
-    assert isinstance(field.inner, fields.Nested)
-    inner = plan(field.inner.schema)
-
-    def listed(obj: Any, ctx: UnitContext) -> Any:
-        value = value_of(obj)
-        if value is missing or value is None:
-            return value
-        return [inner(v, ctx) for v in value]
-    return listed
 
 
 _PLAIN = (fields.String, fields.Float, fields.Integer, fields.Boolean, fields.Raw)
@@ -162,11 +148,12 @@ def _field(schema: Schema, field: fields.Field, attr: str) -> Plan:
     if type(field) is Quantity:
         return _quantity(field, attr)
     if type(field) is fields.Nested:
-        return _nested(field, attr)
+        # a many schema's plan takes the list itself
+        return _nested(field, attr, field.schema, bool(field.many) and not field.schema.many)
     inner = getattr(field, "inner", None)
     if type(field) is fields.List and type(inner) is fields.Nested and not inner.many \
             and not inner.schema.many:
-        return _nested_list(field, attr)
+        return _nested(field, attr, inner.schema, True)
     if type(field) in _PLAIN:
         return _plain(field, attr)
     return _generic(schema, field, attr)

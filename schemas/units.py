@@ -244,10 +244,8 @@ class UnitContext:
         return si
 
     def from_si(self, value: float, kind: str, unit: str | None = None) -> float:
-        m = affine_map(unit or self.output_unit(kind), kind)
-        if m.gauge:
-            value -= self.atmospheric_pressure
-        return (value - m.offset) / m.scale
+        return _from_si(value, affine_map(unit or self.output_unit(kind), kind),
+                        self.atmospheric_pressure)
 
     def render(self, value: float, kind: str, unit: str | None = None) -> dict[str, object]:
         """``{"value", "unit"}`` for an SI value; non-finite values are written as null."""
@@ -275,12 +273,17 @@ class UnitContext:
         return f"{number:.6g} {unit}" if unit != "1" else f"{number:.6g}"
 
 
-def _rendered(value: float, unit: str, m: AffineMap, atmosphere: float) -> dict[str, object]:
-    """``{"value", "unit"}`` of the SI ``value`` in ``unit`` (map ``m``; ``atmosphere`` [Pa]
-    for a gauge unit), by the arithmetic of :meth:`UnitContext.from_si`."""
+def _from_si(value: float, m: AffineMap, atmosphere: float) -> float:
+    """The SI ``value`` in the unit of map ``m`` (``atmosphere`` [Pa] for a gauge unit)."""
     if m.gauge:
         value -= atmosphere
-    out = (value - m.offset) / m.scale
+    return (value - m.offset) / m.scale
+
+
+def _rendered(value: float, unit: str, m: AffineMap, atmosphere: float) -> dict[str, object]:
+    """``{"value", "unit"}`` of the SI ``value`` in ``unit`` (map ``m``; ``atmosphere`` [Pa]
+    for a gauge unit)."""
+    out = _from_si(value, m, atmosphere)
     if not math.isfinite(out):
         return {"value": None, "unit": unit}
     # 15 significant digits: free of the last-bit noise of a division (3.7299999999999995 mm
