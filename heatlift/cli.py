@@ -45,10 +45,14 @@ def _prepare(_args: argparse.Namespace) -> int:
 
 
 def _warm_tables(args: argparse.Namespace) -> int:
-    """Build the blends' saturation tables once (install or image build); see
-    :mod:`heatlift.properties_tables`."""
-    from heatlift import properties_tables
+    """Build the blends' saturation tables and the property library's tables of the pure
+    fluids once (install or image build); see :mod:`heatlift.properties_tables` and
+    :mod:`heatlift.starts`. With ``--blend``, only those blends' saturation tables."""
+    from heatlift import properties_tables, starts
 
+    if not args.blend:
+        folder = starts.build(starts.catalogue_fluids())
+        print(f"library tables written to {folder}")
     path = properties_tables.build(names=args.blend or None)
     print(f"tables written to {path}")
     return 0
@@ -66,7 +70,8 @@ def build_parser() -> argparse.ArgumentParser:
     serve.set_defaults(func=_serve)
     warm = sub.add_parser(
         "warm-tables",
-        help="build the blends' saturation tables once (at install or image build; "
+        help="build the blends' saturation tables and the pure fluids' library tables once "
+             "(at install or image build; "
              "HEATLIFT_TABLES_DIR says where, default ~/.cache/heatlift)",
     )
     warm.add_argument("--blend", action="append",

@@ -23,7 +23,7 @@ from __future__ import annotations
 import contextlib
 import math
 import threading
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass
 from functools import cache
 from typing import Any, NamedTuple
@@ -31,7 +31,7 @@ from typing import Any, NamedTuple
 import CoolProp
 import CoolProp.CoolProp as CP
 
-from heatlift import flash, properties_tables
+from heatlift import flash, properties_tables, starts
 from heatlift.errors import InvalidInput, NotConverged, OutOfRange, PropertyFailure, SIValue
 from heatlift.refrigerants import Refrigerant, lookup
 
@@ -40,6 +40,7 @@ LIBRARY_VERSION = f"CoolProp {CoolProp.__version__} ({CoolProp.__gitrevision__[:
 PHASES = ("subcooled_liquid", "two_phase", "superheated_vapor", "supercritical")
 _MAX_ITERATIONS = 40
 _RELATIVE_TOLERANCE = 1e-10
+_new = tuple.__new__  # builds a named tuple from a tuple of its fields (see State)
 _LIMIT_SLACK = 1e-9  # relative: a limit given in other units may come back rounded in the last bit
 _KINDS = {"temperature": "temperature", "pressure": "pressure", "enthalpy": "specific_enthalpy",
           "entropy": "specific_entropy", "quality": "dimensionless"}
@@ -49,7 +50,9 @@ class State(NamedTuple):
     """A thermodynamic state [Pa, K, J/kg, J/kg/K, kg/m^3]; ``quality`` only when two-phase.
 
     Immutable like the engine's result dataclasses, but a named tuple: a cycle builds a dozen
-    of them, and a named tuple is built in a fifth of the time of a frozen dataclass.
+    of them, and a named tuple is built in a fifth of the time of a frozen dataclass. The
+    hot paths build it as ``_new(State, (...))`` (``tuple.__new__``: the same named tuple,
+    without the generated class's Python-level ``__new__``, in half the time).
     """
 
     pressure: float
@@ -59,6 +62,19 @@ class State(NamedTuple):
     density: float
     quality: float | None
     phase: str
+
+
+class _PerThread(threading.local):
+    """A model's per-thread objects: the library state and the remembered saturation answers
+    (set up afresh in each thread on its first use)."""
+
+    def __init__(self) -> None:
+        self.state: CP.AbstractState | None = None
+        # pressure [Pa] -> (bubble, dew), a side None until asked for (blends)
+        self.saturation: dict[float, tuple[State | None, State | None]] = {}
+        self.enveloped = False  # a blend's phase envelope is traced on the state
+        self.second: CP.AbstractState | None = None
+        self.components: list[CP.AbstractState] | None = None
 
 
 @dataclass(frozen=True)
@@ -85,7 +101,7 @@ class PropertyModel:
     def __init__(self, refrigerant: Refrigerant) -> None:
         self.refrigerant = refrigerant
         self.name = refrigerant.designation
-        self._local = threading.local()
+        self._local = _PerThread()
         fluids = refrigerant.coolprop_fluids
         self.is_mixture = len(fluids) > 1
         self._backend_name = "&".join(fluids)
@@ -104,11 +120,13 @@ class PropertyModel:
         # a pure fluid's bubble and dew coincide; the library's pseudo-pure blends (R404A,
         # R407C, R410A, R507A) keep a glide between separate bubble and dew lines
         self._one_temperature = refrigerant.kind == "pure"
+        # Newton starts from the library's tables (pure fluids and pseudo-pure blends)
+        self._starts = None if self.is_mixture else starts.Starts(fluids[0])
 
     # -- the per-thread CoolProp state -------------------------------------------------------
 
     def _state(self) -> CP.AbstractState:
-        state = getattr(self._local, "state", None)
+        state = self._local.state
         if state is None:
             state = CP.AbstractState("HEOS", self._backend_name)
             if self._mole_fractions is not None:
@@ -124,7 +142,7 @@ class PropertyModel:
         fail near the critical point (R454B's dew line above about 4.7 MPa). Traced on first
         need, per thread, not at start-up: the tables answer most saturation questions."""
         state = self._state()
-        if self.is_mixture and not getattr(self._local, "enveloped", False):
+        if self.is_mixture and not self._local.enveloped:
             self._trace_envelope(state)
         try:
             if phase is not None:
@@ -222,6 +240,11 @@ class PropertyModel:
     def saturated_at_temperature(self, temperature: float, quality: float) -> State:
         """Bubble (``quality`` 0) or dew (1) point at ``temperature`` [K]."""
         self.check_saturation_temperature(temperature)
+        if self._one_temperature:
+            # a pure fluid: both coexisting phases from one flash, remembered by pressure
+            bubble, dew = self._remember_pair(*_coexisting(self._flashed(
+                CP.QT_INPUTS, quality, temperature)))
+            return dew if quality == 1.0 else bubble
         table = self._table()
         if table is not None:
             found = table.pressure_at(temperature, quality == 1.0)
@@ -230,18 +253,12 @@ class PropertyModel:
                 # state, with the temperature as asked rather than its last-digit echo
                 point = self.saturated_at_pressure(found, quality)._replace(
                     temperature=temperature)
-                self._remember_saturation(point)
+                self._remember_side(point)
                 return point
         state = self._update(CP.QT_INPUTS, quality, temperature)
         if not self.is_mixture:
-            if self._one_temperature:
-                # both coexisting phases at once; remembered by pressure like the pressure
-                # flashes
-                bubble, dew = _coexisting(state)
-                self._remember_saturation(bubble, dew)
-                return dew if quality == 1.0 else bubble
             point = self._snapshot(state, quality, "two_phase")
-            self._remember_saturation(point)
+            self._remember_side(point)
             return point
         if state.p() >= self.critical_pressure:
             # with a phase envelope built on the state, the library's flash can land on the
@@ -259,54 +276,80 @@ class PropertyModel:
             state = plain
         return self._snapshot(state, quality, "two_phase")
 
-    def _remember_saturation(self, *found: State) -> None:
-        cache = getattr(self._local, "saturation", None)
-        if cache is None:
-            cache = self._local.saturation = {}
+    def _flashed(self, pair: Any, a: float, b: float) -> CP.AbstractState:
+        """The library's flash of a pure fluid's thread state (no phase imposed, no envelope:
+        :meth:`_update` without its blend and phase handling)."""
+        state = self._state()
+        try:
+            state.update(pair, a, b)
+        except ValueError as exc:
+            raise PropertyFailure(
+                f"the equation of state of {self.name} could not be evaluated here",
+            ) from exc
+        return state
+
+    def _remember_pair(self, bubble: State, dew: State) -> tuple[State, State]:
+        """Remember both saturated states at their pressure (the thread's last few hundred
+        pressures); returns them."""
+        cache = self._local.saturation
         if len(cache) >= 512:
             cache.clear()
-        for sat in found:
-            cache[(sat.pressure, sat.quality)] = sat
+        pair = cache[bubble.pressure] = (bubble, dew)
+        return pair
+
+    def _remember_side(self, found: State) -> None:
+        """Remember one saturated state (``quality`` 0 or 1) beside its other side, if known."""
+        cache = self._local.saturation
+        if len(cache) >= 512:
+            cache.clear()
+        bubble, dew = cache.get(found.pressure, (None, None))
+        cache[found.pressure] = (found, dew) if found.quality == 0.0 else (bubble, found)
+
+    def saturation(self, pressure: float) -> tuple[State, State]:
+        """(bubble, dew) at ``pressure`` [Pa], each as :meth:`saturated_at_pressure` gives it
+        (one call for the pair that most states need)."""
+        found = self._local.saturation.get(pressure)
+        if found is not None:
+            bubble, dew = found
+            if bubble is not None and dew is not None:
+                return bubble, dew
+        return self.saturated_at_pressure(pressure, 0.0), self.saturated_at_pressure(pressure, 1.0)
 
     def saturated_at_pressure(self, pressure: float, quality: float) -> State:
-        """Bubble (``quality`` 0) or dew (1) point at ``pressure`` [Pa].
+        """Bubble (``quality`` 0) or dew (1) point at ``pressure`` [Pa] (another quality: the
+        two-phase state at the pressure, not remembered).
 
         A blend's saturation flash costs about a millisecond and a cycle asks for the same
         pressures many times, so each thread remembers its last few hundred answers (the
         answers are exact either way; only time is saved).
         """
-        cache = getattr(self._local, "saturation", None)
-        if cache is None:
-            cache = self._local.saturation = {}
-        key = (pressure, quality)
-        found = cache.get(key)
-        if found is not None:
-            return found
+        side = quality == 1.0
+        if side or quality == 0.0:
+            pair = self._local.saturation.get(pressure)
+            if pair is not None and pair[side] is not None:
+                return pair[side]  # type: ignore[return-value]
         self.check_saturation_pressure(pressure)
         table = self._table()
         if table is not None and table.covers(pressure) and quality in (0.0, 1.0):
-            bubble, dew = (State(pressure, t, h, s, 1.0 / v, q, "two_phase")
-                           for (t, h, s, v), q in zip(table.lines(pressure), (0.0, 1.0),
-                                                      strict=True))
-            self._remember_saturation(bubble, dew)
-            return dew if quality == 1.0 else bubble
+            bubble, dew = self._remember_pair(*(
+                State(pressure, t, h, s, 1.0 / v, q, "two_phase")
+                for (t, h, s, v), q in zip(table.lines(pressure), (0.0, 1.0), strict=True)))
+            return dew if side else bubble
         try:
             state = self._update(CP.PQ_INPUTS, pressure, quality)
         except PropertyFailure:
             if not self.is_mixture or quality not in (0.0, 1.0):
                 raise
             state = self._saturation_by_temperature(pressure, quality)
-        if len(cache) >= 512:
-            cache.clear()
         if not self.refrigerant.is_blend:
             # one flash of a pure fluid yields both coexisting phases: keep both (not for the
             # pseudo-pure blends R404A, R407C ...: their bubble and dew points differ)
-            bubble, dew = _coexisting(state)
-            cache[(pressure, 0.0)], cache[(pressure, 1.0)] = bubble, dew
-            return dew if quality == 1.0 else bubble if quality == 0.0 else \
+            bubble, dew = self._remember_pair(*_coexisting(state))
+            return dew if side else bubble if quality == 0.0 else \
                 self._snapshot(state, quality, "two_phase")
         result = self._snapshot(state, quality, "two_phase")
-        cache[key] = result
+        if quality in (0.0, 1.0):
+            self._remember_side(result)
         return result
 
     def _saturation_by_temperature(self, pressure: float, quality: float) -> CP.AbstractState:
@@ -352,13 +395,12 @@ class PropertyModel:
         self.check_equation_range(pressure, temperature)
         if pressure >= self.critical_pressure or temperature >= self.critical_temperature:
             return self._single_phase_pt(pressure, temperature, "supercritical")
-        # (saturated_at_pressure checks the saturation range of the pressure)
-        bubble = self.saturated_at_pressure(pressure, 0.0)
-        dew = self.saturated_at_pressure(pressure, 1.0)
+        # (saturation checks the saturation range of the pressure)
+        bubble, dew = self.saturation(pressure)
         if temperature > dew.temperature:
-            return self._single_phase_pt(pressure, temperature, "superheated_vapor")
+            return self._single_phase_pt(pressure, temperature, "superheated_vapor", dew)
         if temperature < bubble.temperature:
-            return self._single_phase_pt(pressure, temperature, "subcooled_liquid")
+            return self._single_phase_pt(pressure, temperature, "subcooled_liquid", bubble)
         if dew.temperature - bubble.temperature < 1e-9:
             raise InvalidInput(
                 f"{{t}} is the saturation temperature of {self.name} at {{p}}: temperature and "
@@ -395,8 +437,7 @@ class PropertyModel:
         library's own definition of their two-phase states), so the state is mixed from them.
         """
         if not self.is_mixture:
-            return _mixed(self.saturated_at_pressure(pressure, 0.0),
-                          self.saturated_at_pressure(pressure, 1.0), quality)
+            return _mixed(*self.saturation(pressure), quality)
         self.check_saturation_pressure(pressure)
         if quality in (0.0, 1.0):
             state = self._update(CP.PQ_INPUTS, pressure, quality)
@@ -550,9 +591,8 @@ class PropertyModel:
         if pressure >= self.critical_pressure:
             return self._spanned_solve(pressure, target, which, "supercritical", None,
                                        "supercritical", "supercritical", near)
-        # (saturated_at_pressure checks the saturation range of the pressure)
-        bubble = self.saturated_at_pressure(pressure, 0.0)
-        dew = self.saturated_at_pressure(pressure, 1.0)
+        # (saturation checks the saturation range of the pressure)
+        bubble, dew = self.saturation(pressure)
         if target > prop(dew):
             return self._spanned_solve(pressure, target, which, "superheated_vapor", dew,
                                        None, "superheated_vapor", near)
@@ -606,6 +646,8 @@ class PropertyModel:
 
     # -- single phase ---------------------------------------------------------------------------
 
+    _BRANCHES = {"superheated_vapor": "vapor", "subcooled_liquid": "liquid",
+                 "supercritical": "any"}  # for flash.density_at
     _PHASE_FLAGS = {
         "superheated_vapor": CP.iphase_gas,
         "subcooled_liquid": CP.iphase_liquid,
@@ -615,17 +657,21 @@ class PropertyModel:
         "supercritical": CP.iphase_supercritical_liquid,
     }
 
-    def _single_phase_pt(self, pressure: float, temperature: float, phase: str) -> State:
+    def _single_phase_pt(self, pressure: float, temperature: float, phase: str,
+                         saturated: State | None = None) -> State:
         """Single-phase state at ``pressure`` [Pa] and ``temperature`` [K]: Newton in density
         on the equation of state with the phase imposed (:func:`heatlift.flash.density_at`),
-        from the saturated phase's density; a pure fluid falls back on the library's flash."""
+        from the library's tables' density where a pure fluid has them (``saturated``, the
+        saturated state of the phase at the pressure, tells whether it is on the phase's
+        side), else from the saturated phase's density; a pure fluid falls back on the
+        library's flash."""
         flag = self._PHASE_FLAGS[phase]
-        rho = self._density_guess(pressure, temperature, phase)
+        rho = self._table_density(pressure, temperature, phase, flag, saturated) or \
+            self._density_guess(pressure, temperature, phase)
         state = self._state()
-        branch = {"superheated_vapor": "vapor", "subcooled_liquid": "liquid"}.get(phase, "any")
         try:
-            point = flash.density_at(state, pressure, temperature, rho, flag, branch,
-                                     self._constants)
+            point = flash.density_at(state, pressure, temperature, rho, flag,
+                                     self._BRANCHES[phase], self._constants)
         except flash.FlashFailure as exc:
             if self.is_mixture:
                 raise NotConverged(
@@ -653,8 +699,24 @@ class PropertyModel:
         elif phase == "supercritical":
             phase = "superheated_vapor" if temperature >= self.critical_temperature else \
                 "subcooled_liquid"
-        return State(pressure, temperature, point.enthalpy, point.entropy, point.density, None,
-                     phase)
+        return _new(State, (pressure, temperature, point.enthalpy, point.entropy,
+                            point.density, None, phase))
+
+    def _table_density(self, pressure: float, temperature: float, phase: str, flag: Any,
+                       saturated: State | None) -> float | None:
+        """A starting density [kg/m^3] from the library's tables (:mod:`heatlift.starts`) for a
+        vapour or a liquid below the critical pressure, if it lies on the phase's side of the
+        ``saturated`` state (the tables interpolate across the saturation line in the cells
+        it crosses); else None."""
+        if self._starts is None or saturated is None:
+            return None
+        tabled = self._starts.at(CP.PT_INPUTS, pressure, temperature, flag)
+        if tabled is None:
+            return None
+        rho = tabled[1]
+        if phase == "superheated_vapor":
+            return rho if rho < saturated.density else None
+        return rho if rho > saturated.density else None
 
     def _density_guess(self, pressure: float, temperature: float, phase: str) -> float:
         """A starting density [kg/m^3] for the phase at ``pressure`` [Pa], ``temperature`` [K].
@@ -698,55 +760,85 @@ class PropertyModel:
 
         Newton steps in temperature and density on the equation of state with the phase
         imposed (:func:`heatlift.flash.pressure_and`; each evaluation takes microseconds),
-        starting from ``near`` when given, else from the saturated state ``start``. The start
-        depends on the inputs alone, never on what the process solved before, so that equal
-        requests give equal answers to the last digit. A pure fluid whose steps fail falls
-        back on the library's own flash; a blend raises NotConverged. The answer must lie on
-        the side of saturation the phase says.
+        starting from the library's tables where a pure fluid has them (usually one
+        evaluation), else from ``near`` when given, else from the saturated state ``start``.
+        The start depends on the inputs alone, never on what the process solved before, so
+        that equal requests give equal answers to the last digit. A pure fluid whose steps
+        fail falls back on the library's own flash; a blend raises NotConverged. The answer
+        must lie on the side of saturation the phase says.
         """
         flag = self._PHASE_FLAGS[phase]
-        if near is not None:
-            guess = (near.temperature, near.density)
-        elif start is not None:
-            guess = flash.first_guess_from_saturation(
-                start.temperature, start.density, target, which, phase == "superheated_vapor")
-        else:
-            temperature = self.critical_temperature * 1.2
-            guess = (temperature, self._density_guess(pressure, temperature, phase))
         state = self._state()
+        tabled = self._table_start(pressure, target, which, flag)
+        if tabled is not None:
+            try:
+                point = flash.pressure_and(state, pressure, target, which, tabled[0],
+                                           tabled[1], flag, self._constants)
+                if self._acceptable(point, start, phase):
+                    return self._single_phase_state(point, pressure, phase)
+            except flash.FlashFailure:
+                pass  # the starts below
 
-        def solve(guess: tuple[float, float], handed_over: bool = False) -> flash.Point:
+        def solve(guess: tuple[float, float], handed_over: bool) -> flash.Point:
             point = flash.pressure_and(state, pressure, target, which, guess[0], guess[1],
                                        flag, self._constants, handed_over)
-            wrong_side = start is not None and (
-                point.temperature < start.temperature if phase == "superheated_vapor"
-                else point.temperature > start.temperature)
-            if wrong_side:
-                raise flash.FlashFailure("converged on the other side of saturation")
-            if start is None and not self.is_mixture and self._metastable(point):
-                raise flash.FlashFailure("converged on a metastable root")
+            if not self._acceptable(point, start, phase):
+                raise flash.FlashFailure("converged on the other side of saturation or on a "
+                                         "metastable root")
             return point
 
-        try:
-            try:
-                point = solve(guess, near is not None)
-            except flash.FlashFailure:
-                if self.is_mixture or phase != "subcooled_liquid" or start is None:
-                    raise
+        def guesses() -> Iterator[tuple[tuple[float, float], bool]]:
+            """Starts in the order tried, each with whether it was handed over."""
+            if near is not None:
+                yield (near.temperature, near.density), True
+            elif start is not None:
+                yield flash.first_guess_from_saturation(
+                    start.temperature, start.density, target, which,
+                    phase == "superheated_vapor"), False
+            else:
+                temperature = self.critical_temperature * 1.2
+                yield (temperature, self._density_guess(pressure, temperature, phase)), False
+            if not self.is_mixture and phase == "subcooled_liquid" and start is not None:
                 # a liquid far colder than its bubble point (near the critical pressure the
                 # bubble point's density is far from the cold liquid's): start on the
                 # saturated liquid line where the property is the target
-                point = solve(self._liquid_line_start(pressure, target, which, start.temperature))
-        except flash.FlashFailure as exc:
-            if self.is_mixture:
-                raise NotConverged(
-                    f"no {phase.replace('_', ' ')} state of {self.name} was found at {{p}} with "
-                    f"that {which}", {"p": _p(pressure)},
-                ) from exc
-            pair = CP.HmassP_INPUTS if which == "enthalpy" else CP.PSmass_INPUTS
-            a, b = (target, pressure) if which == "enthalpy" else (pressure, target)
-            point = _point(self._update(pair, a, b))
-        return self._single_phase_state(point, pressure, phase)
+                yield self._liquid_line_start(pressure, target, which, start.temperature), False
+
+        failure = flash.FlashFailure("no start given")
+        for guess, handed_over in guesses():
+            try:
+                return self._single_phase_state(solve(guess, handed_over), pressure, phase)
+            except flash.FlashFailure as exc:
+                failure = exc
+        if self.is_mixture:
+            raise NotConverged(
+                f"no {phase.replace('_', ' ')} state of {self.name} was found at {{p}} with "
+                f"that {which}", {"p": _p(pressure)},
+            ) from failure
+        pair = CP.HmassP_INPUTS if which == "enthalpy" else CP.PSmass_INPUTS
+        a, b = (target, pressure) if which == "enthalpy" else (pressure, target)
+        return self._single_phase_state(_point(self._update(pair, a, b)), pressure, phase)
+
+    def _acceptable(self, point: flash.Point, saturated: State | None, phase: str) -> bool:
+        """Whether a solved ``point`` is the state asked for: on its ``phase``'s side of the
+        ``saturated`` state at the same pressure (hotter than the dew point for a vapour,
+        colder than the bubble point for a liquid); without one (above the critical
+        pressure), not a pure fluid's metastable root (:meth:`_metastable`)."""
+        if saturated is None:
+            return self.is_mixture or not self._metastable(point)
+        if phase == "superheated_vapor":
+            return point.temperature >= saturated.temperature
+        return point.temperature <= saturated.temperature
+
+    def _table_start(self, pressure: float, target: float, which: str, flag: Any
+                     ) -> tuple[float, float] | None:
+        """(T [K], rho [kg/m^3]) at ``pressure`` with that enthalpy or entropy from the
+        library's tables (:mod:`heatlift.starts`), None where there are none."""
+        if self._starts is None:
+            return None
+        if which == "enthalpy":
+            return self._starts.at(CP.HmassP_INPUTS, target, pressure, flag)
+        return self._starts.at(CP.PSmass_INPUTS, pressure, target, flag)
 
     def _liquid_line_start(self, pressure: float, target: float, which: str,
                            t_bubble: float) -> tuple[float, float]:
@@ -797,7 +889,7 @@ class PropertyModel:
 
     def _components_state(self) -> CP.AbstractState:
         """A second per-thread state of the fluid, for checks that must not disturb the first."""
-        found = getattr(self._local, "second", None)
+        found = self._local.second
         if found is None:
             found = self._local.second = CP.AbstractState("HEOS", self._backend_name)
         return found
@@ -1040,7 +1132,7 @@ class PropertyModel:
         return Transport(viscosity=mu)
 
     def _components(self) -> list[CP.AbstractState]:
-        found = getattr(self._local, "components", None)
+        found = self._local.components
         if found is None:
             found = [CP.AbstractState("HEOS", f) for f in self.refrigerant.coolprop_fluids]
             self._local.components = found
@@ -1097,7 +1189,7 @@ def _component_viscosity(
 
 def _point(state: CP.AbstractState) -> flash.Point:
     """The single-phase point the library's own flash left ``state`` at."""
-    return flash.Point(state.T(), state.rhomass(), state.hmass(), state.smass())
+    return _new(flash.Point, (state.T(), state.rhomass(), state.hmass(), state.smass()))
 
 
 def _mixed(bubble: State, dew: State, quality: float) -> State:
@@ -1109,7 +1201,7 @@ def _mixed(bubble: State, dew: State, quality: float) -> State:
     if quality == 1.0:
         return dew
     liquid = 1.0 - quality
-    return State(
+    return _new(State, (
         bubble.pressure,
         liquid * bubble.temperature + quality * dew.temperature,
         liquid * bubble.enthalpy + quality * dew.enthalpy,
@@ -1117,7 +1209,7 @@ def _mixed(bubble: State, dew: State, quality: float) -> State:
         1.0 / (liquid / bubble.density + quality / dew.density),
         quality,
         "two_phase",
-    )
+    ))
 
 
 def _coexisting(state: CP.AbstractState) -> tuple[State, State]:
@@ -1125,8 +1217,8 @@ def _coexisting(state: CP.AbstractState) -> tuple[State, State]:
     p, t = state.p(), state.T()
     liq, vap = state.saturated_liquid_keyed_output, state.saturated_vapor_keyed_output
     return (
-        State(p, t, liq(CP.iHmass), liq(CP.iSmass), liq(CP.iDmass), 0.0, "two_phase"),
-        State(p, t, vap(CP.iHmass), vap(CP.iSmass), vap(CP.iDmass), 1.0, "two_phase"),
+        _new(State, (p, t, liq(CP.iHmass), liq(CP.iSmass), liq(CP.iDmass), 0.0, "two_phase")),
+        _new(State, (p, t, vap(CP.iHmass), vap(CP.iSmass), vap(CP.iDmass), 1.0, "two_phase")),
     )
 
 

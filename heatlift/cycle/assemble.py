@@ -8,23 +8,24 @@ requested size, scales everything, computes the figures of merit and the reviewe
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from heatlift.cycle.result import CyclePoint, CycleResult, Performance
 from heatlift.cycle.spec import CycleSpec
 from heatlift.errors import InvalidInput, Remark, SIValue
 from heatlift.properties import PropertyModel, State
 
+_new = tuple.__new__  # a named tuple from the tuple of its fields, without its Python __new__
 PRESSURE_RATIO_LIMIT = 8.0  # one reciprocating or scroll stage, common practice
 
 
-@dataclass(frozen=True, slots=True)
-class PerKilogram:
+class PerKilogram(NamedTuple):
     """A circuit solved for 1 kg/s of evaporator flow [J/kg of evaporator flow, K, Pa, 1].
 
     ``heat_in`` includes heat picked up by the suction line (not useful cooling) and
     ``heat_out`` heat lost by the liquid line and the compressor shell besides the condenser, so
-    that heat_in + work = heat_out closes the balance.
+    that heat_in + work = heat_out closes the balance. (A named tuple, like the circuit's other
+    intermediate records: immutable, and cheap to build once per solve.)
     """
 
     states: tuple[tuple[str, State, float], ...]  # label, state, flow per kg evaporator flow
@@ -132,7 +133,7 @@ def assemble(m: PropertyModel, spec: CycleSpec, solved: PerKilogram) -> CycleRes
     flow = evaporator_mass_flow(spec, solved)
     if not flow > 0.0:
         raise InvalidInput("the size must be positive", field="cooling_capacity")
-    points = tuple([CyclePoint(label, state, share * flow)
+    points = tuple([_new(CyclePoint, (label, state, share * flow))
                     for label, state, share in solved.states])
     work = solved.work * flow
     cooling = solved.cooling * flow

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from heatlift.cycle import processes as proc
 from heatlift.cycle.spec import CycleSpec
@@ -10,8 +10,7 @@ from heatlift.errors import InvalidInput, SIValue
 from heatlift.properties import PropertyModel, State
 
 
-@dataclass(frozen=True, slots=True)
-class LowSide:
+class LowSide(NamedTuple):
     """Evaporator outlet, the vapour after the suction line [SI], and the heat it picked up."""
 
     p_evaporator_outlet: float
@@ -39,8 +38,7 @@ def low_side(m: PropertyModel, spec: CycleSpec) -> LowSide:
     return LowSide(p_out, p_in, evap_out, after, after.enthalpy - evap_out.enthalpy)
 
 
-@dataclass(frozen=True, slots=True)
-class HighSide:
+class HighSide(NamedTuple):
     """Condenser inlet and outlet pressures, compressor discharge pressure [Pa]."""
 
     p_condenser_inlet: float

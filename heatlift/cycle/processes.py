@@ -5,7 +5,7 @@ Each function is one step of a circuit in SI units; the circuit modules chain th
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from heatlift.cycle.spec import CompressorSpec, PressureDrop, SaturationSpec
 from heatlift.errors import InvalidInput, NotConverged, OutOfRange, SIValue
@@ -63,8 +63,8 @@ def saturation_pressure(m: PropertyModel, spec: SaturationSpec, field: str) -> f
 
 def mean_saturation_temperature(m: PropertyModel, pressure: float) -> float:
     """(T_bubble + T_dew) / 2 at ``pressure`` [K]."""
-    return 0.5 * (m.saturated_at_pressure(pressure, 0.0).temperature
-                  + m.saturated_at_pressure(pressure, 1.0).temperature)
+    bubble, dew = m.saturation(pressure)
+    return 0.5 * (bubble.temperature + dew.temperature)
 
 
 def drop_in_pressure(
@@ -93,8 +93,7 @@ def drop_in_pressure(
     return pressure - m.saturated_at_temperature(t_dew - drop.saturation_temperature, 1.0).pressure
 
 
-@dataclass(frozen=True, slots=True)
-class Compression:
+class Compression(NamedTuple):
     """A compression from ``suction`` to ``discharge`` with the specific work input [J/kg]."""
 
     suction: State

@@ -9,11 +9,13 @@ the slow, general way (a blend's two-phase state against its pressure-quality fl
 property of every state must agree to 1e-6 relative (enthalpy and entropy relative to their size
 plus 10 kJ/kg and 10 J/kg/K, because their zero is a convention; the quality absolutely).
 
-Pure fluids (and the library's pseudo-pure blends) get a grid of pressures and states each; the
-blends built from components get a coarse grid, since each of their reference flashes costs
-hundreds of milliseconds. Where no blend tables were built (``heatlift warm-tables``), tables
-for two blends are built for this test in a temporary folder so that the fitted path is tested
-whatever the machine, and the other blends are checked on the path the engine takes there.
+Pure fluids (and the library's pseudo-pure blends) get a grid of pressures and states each,
+twice: with the Newton steps started from the library's tables (:mod:`heatlift.starts`) and
+from the saturated states alone; the blends built from components get a coarse grid, since
+each of their reference flashes costs hundreds of milliseconds. Where the tables were not built
+(``heatlift warm-tables``), tables for two blends and the library's tables of two pure fluids
+are built for this test in a temporary folder so that every path is tested whatever the
+machine, and the other fluids are checked on the path the engine takes there.
 """
 
 from __future__ import annotations
@@ -23,9 +25,9 @@ from collections.abc import Iterator
 import CoolProp.CoolProp as CP
 import pytest
 
-from heatlift import properties_tables
+from heatlift import properties_tables, starts
 from heatlift.properties import PropertyModel, State, model
-from heatlift.refrigerants import catalogue
+from heatlift.refrigerants import catalogue, lookup
 
 REL = 1e-6
 FLOORS = {"pressure": 0.0, "temperature": 0.0, "density": 0.0, "enthalpy": 1e4,
@@ -36,18 +38,26 @@ BLENDS = [n for n in catalogue() if len(catalogue()[n].coolprop_fluids) > 1]
 BUILT_FOR_TEST = ("R454B", "R513A")
 
 
+LIBRARY_BUILT_FOR_TEST = ("R32", "R717")
+
+
 @pytest.fixture(scope="module", autouse=True)
-def blend_tables(tmp_path_factory: pytest.TempPathFactory) -> Iterator[None]:
-    """The installed tables if there are any; else tables of two blends built for the test."""
-    if all(properties_tables.table_for(n) is not None for n in BLENDS):
+def tables(tmp_path_factory: pytest.TempPathFactory) -> Iterator[None]:
+    """The installed tables if they are all there; else the tables of two blends and the
+    library's tables of two pure fluids, built for the test in a temporary folder."""
+    wanted = set(starts.catalogue_fluids())
+    if all(properties_tables.table_for(n) is not None for n in BLENDS) and \
+            wanted <= starts.built():
         yield
         return
     mp = pytest.MonkeyPatch()
     mp.setenv("HEATLIFT_TABLES_DIR", str(tmp_path_factory.mktemp("tables")))
+    starts.build(LIBRARY_BUILT_FOR_TEST, log=lambda _: None)
     properties_tables.build(BUILT_FOR_TEST, log=lambda _: None)
     yield
     mp.undo()
     properties_tables.reset()
+    starts.reset()
 
 
 def reference_state(m: PropertyModel) -> CP.AbstractState:
@@ -117,9 +127,18 @@ def check_pressure(m: PropertyModel, ref: CP.AbstractState, p: float, deltas: li
     return checked
 
 
+@pytest.mark.parametrize("starting", ["from the library tables", "from saturation"])
 @pytest.mark.parametrize("name", PURE)
-def test_pure_fluid_states_equal_the_full_flash(name: str) -> None:
-    m = model(name)
+def test_pure_fluid_states_equal_the_full_flash(name: str, starting: str) -> None:
+    """Both ways of starting the Newton steps: from the library's tables (where they were
+    built) and from the saturated states alone (a machine without the tables)."""
+    m = PropertyModel(lookup(name))  # a model of its own: it reads the tables as they are now
+    fluid = m.refrigerant.coolprop_fluids[0]
+    if starting == "from saturation":
+        m._starts = None
+    else:
+        assert m._starts is not None
+        assert (m._starts.state is not None) == (fluid in starts.built())
     ref = reference_state(m)
     checked = 0
     for t_sat in saturation_temperatures(m, 4):
