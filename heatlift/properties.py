@@ -288,20 +288,22 @@ class PropertyModel:
             ) from exc
         return state
 
-    def _remember_pair(self, bubble: State, dew: State) -> tuple[State, State]:
-        """Remember both saturated states at their pressure (the thread's last few hundred
-        pressures); returns them."""
+    def _saturation_cache(self) -> dict[float, tuple[State | None, State | None]]:
+        """The thread's remembered saturation answers, emptied when it holds 512 pressures."""
         cache = self._local.saturation
         if len(cache) >= 512:
             cache.clear()
-        pair = cache[bubble.pressure] = (bubble, dew)
+        return cache
+
+    def _remember_pair(self, bubble: State, dew: State) -> tuple[State, State]:
+        """Remember both saturated states at their pressure (the thread's last few hundred
+        pressures); returns them."""
+        pair = self._saturation_cache()[bubble.pressure] = (bubble, dew)
         return pair
 
     def _remember_side(self, found: State) -> None:
         """Remember one saturated state (``quality`` 0 or 1) beside its other side, if known."""
-        cache = self._local.saturation
-        if len(cache) >= 512:
-            cache.clear()
+        cache = self._saturation_cache()
         bubble, dew = cache.get(found.pressure, (None, None))
         cache[found.pressure] = (found, dew) if found.quality == 0.0 else (bubble, found)
 
@@ -769,15 +771,9 @@ class PropertyModel:
         """
         flag = self._PHASE_FLAGS[phase]
         state = self._state()
-        tabled = self._table_start(pressure, target, which, flag)
-        if tabled is not None:
-            try:
-                point = flash.pressure_and(state, pressure, target, which, tabled[0],
-                                           tabled[1], flag, self._constants)
-                if self._acceptable(point, start, phase):
-                    return self._single_phase_state(point, pressure, phase)
-            except flash.FlashFailure:
-                pass  # the starts below
+        found = self._solve_from_table(pressure, target, which, phase, flag, start)
+        if found is not None:
+            return found
 
         def solve(guess: tuple[float, float], handed_over: bool) -> flash.Point:
             point = flash.pressure_and(state, pressure, target, which, guess[0], guess[1],
@@ -818,6 +814,23 @@ class PropertyModel:
         pair = CP.HmassP_INPUTS if which == "enthalpy" else CP.PSmass_INPUTS
         a, b = (target, pressure) if which == "enthalpy" else (pressure, target)
         return self._single_phase_state(_point(self._update(pair, a, b)), pressure, phase)
+
+    def _solve_from_table(self, pressure: float, target: float, which: str, phase: str,
+                          flag: Any, start: State | None) -> State | None:
+        """:meth:`_single_phase_solve` from the library tables' start (usually one
+        evaluation); None where there are no tables or the steps from there fail or end on
+        the wrong root (the caller then tries its other starts)."""
+        tabled = self._table_start(pressure, target, which, flag)
+        if tabled is None:
+            return None
+        try:
+            point = flash.pressure_and(self._state(), pressure, target, which, tabled[0],
+                                       tabled[1], flag, self._constants)
+        except flash.FlashFailure:
+            return None
+        if not self._acceptable(point, start, phase):
+            return None
+        return self._single_phase_state(point, pressure, phase)
 
     def _acceptable(self, point: flash.Point, saturated: State | None, phase: str) -> bool:
         """Whether a solved ``point`` is the state asked for: on its ``phase``'s side of the
