@@ -53,8 +53,14 @@ STEP_TOL = 1e-9
 # step's square (1e-10) of the root
 LAST_STEP_TOL = 1e-5
 Y_FLOOR = {"enthalpy": 1e4, "entropy": 10.0}
+# refine(): at most this many evaluations from a close start, the first step shorter than
+# REFINE_REACH (relative) and each one shorter than the last (Newton's quadratic convergence
+# from a start 1e-3 away reaches LAST_STEP_TOL in two steps)
+REFINE_STEPS = 4
+REFINE_REACH = 0.02
 
 _DT = CP.DmassT_INPUTS
+_IP, _IT, _ID, _IH, _IS = CP.iP, CP.iT, CP.iDmass, CP.iHmass, CP.iSmass
 
 Fluid = tuple[float, float, float, float]
 _new = tuple.__new__
@@ -289,6 +295,68 @@ def pressure_and(
         raise
     except ValueError as exc:  # the library refused the evaluation
         raise FlashFailure(str(exc)) from exc
+    finally:
+        state.unspecify_phase()
+
+
+def refine(
+    state: CP.AbstractState, pressure: float, target: float, key: Any, temperature: float,
+    rho: float, phase: Any,
+) -> Point | None:
+    """The point at ``pressure`` [Pa] whose property ``key`` (the library's ``iT``, ``iHmass``
+    or ``iSmass``) is ``target`` [K, J/kg, J/kg/K], by Newton steps from a close start
+    (``temperature`` [K], ``rho`` [kg/m^3]; the library's tables): at most REFINE_STEPS
+    evaluations, each step shorter than REFINE_REACH and than the one before; None when
+    they do not reach a step shorter than LAST_STEP_TOL (or the library refuses an
+    evaluation), and the caller then runs the full solve.
+
+    An evaluation gives p and y = h or s and the library's partial derivatives of both in T
+    and rho; the step solves
+
+        dp/dT dT + dp/drho drho = p* - p,   dy/dT dT + dy/drho drho = y* - y
+
+    (for the temperature itself: dT = 0 and drho = (p* - p) / (dp/drho)). The last step's
+    end is not evaluated: there y is y* (the step solves its linear equation exactly) and the
+    other of h and s follows from its derivatives, exact to the square of the step (below
+    1e-10).
+    """
+    update, partial = state.update, state.first_partial_deriv
+    reach = REFINE_REACH
+    state.specify_phase(phase)
+    try:
+        for _ in range(REFINE_STEPS):
+            update(_DT, rho, temperature)
+            dp = pressure - state.p()
+            dp_drho = partial(_IP, _ID, _IT)
+            if key == _IT:
+                d_t, d_rho = 0.0, dp / dp_drho
+                step = abs(d_rho) / rho
+            else:
+                dp_dt = partial(_IP, _IT, _ID)
+                dy_dt, dy_drho = partial(key, _IT, _ID), partial(key, _ID, _IT)
+                dy = target - state.keyed_output(key)
+                det = dp_dt * dy_drho - dp_drho * dy_dt
+                d_t = (dp * dy_drho - dp_drho * dy) / det
+                d_rho = (dp_dt * dy - dy_dt * dp) / det
+                step = max(abs(d_t) / temperature, abs(d_rho) / rho)
+            if step <= LAST_STEP_TOL:
+                if key == _IT:
+                    return _new(Point, (temperature, rho + d_rho,
+                                        state.hmass() + partial(_IH, _ID, _IT) * d_rho,
+                                        state.smass() + partial(_IS, _ID, _IT) * d_rho))
+                other = _IS if key == _IH else _IH
+                carried = state.keyed_output(other) + partial(other, _IT, _ID) * d_t + \
+                    partial(other, _ID, _IT) * d_rho
+                return _new(Point, (temperature + d_t, rho + d_rho) +
+                            ((target, carried) if key == _IH else (carried, target)))
+            if not step < reach:
+                return None
+            reach = step
+            temperature += d_t
+            rho += d_rho
+        return None
+    except (ValueError, ZeroDivisionError):
+        return None
     finally:
         state.unspecify_phase()
 

@@ -237,14 +237,16 @@ class PropertyModel:
                 field=field,
             )
 
-    def saturated_at_temperature(self, temperature: float, quality: float) -> State:
-        """Bubble (``quality`` 0) or dew (1) point at ``temperature`` [K]."""
-        self.check_saturation_temperature(temperature)
+    def saturated_at_temperature(self, temperature: float, quality: float,
+                                 field: str | None = None) -> State:
+        """Bubble (``quality`` 0) or dew (1) point at ``temperature`` [K] (``field`` names the
+        input in the OutOfRange raised outside the saturation range)."""
+        self.check_saturation_temperature(temperature, field)
         if self._one_temperature:
             # a pure fluid: both coexisting phases from one flash, remembered by pressure
-            bubble, dew = self._remember_pair(*_coexisting(self._flashed(
-                CP.QT_INPUTS, quality, temperature)))
-            return dew if quality == 1.0 else bubble
+            pair = _coexisting(self._flashed(CP.QT_INPUTS, quality, temperature))
+            self._saturation_cache()[pair[0].pressure] = pair
+            return pair[quality == 1.0]
         table = self._table()
         if table is not None:
             found = table.pressure_at(temperature, quality == 1.0)
@@ -400,9 +402,11 @@ class PropertyModel:
         # (saturation checks the saturation range of the pressure)
         bubble, dew = self.saturation(pressure)
         if temperature > dew.temperature:
-            return self._single_phase_pt(pressure, temperature, "superheated_vapor", dew)
+            return self._tabled(pressure, temperature, CP.iT, "superheated_vapor", dew) or \
+                self._single_phase_pt(pressure, temperature, "superheated_vapor")
         if temperature < bubble.temperature:
-            return self._single_phase_pt(pressure, temperature, "subcooled_liquid", bubble)
+            return self._tabled(pressure, temperature, CP.iT, "subcooled_liquid", bubble) or \
+                self._single_phase_pt(pressure, temperature, "subcooled_liquid")
         if dew.temperature - bubble.temperature < 1e-9:
             raise InvalidInput(
                 f"{{t}} is the saturation temperature of {self.name} at {{p}}: temperature and "
@@ -585,24 +589,29 @@ class PropertyModel:
 
     def _at_pressure(self, pressure: float, target: float, which: str,
                      near: State | None = None) -> State:
-        def prop(state: State) -> float:
-            return state.enthalpy if which == "enthalpy" else state.entropy
-
+        """The state at ``pressure`` with enthalpy or entropy ``target``: the phase from the
+        bubble and dew points, a single phase from the library tables' start
+        (:meth:`_tabled`), else by :meth:`_spanned_solve`."""
+        enthalpy = which == "enthalpy"
+        key = CP.iHmass if enthalpy else CP.iSmass
         if near is not None and near.quality is not None:
             near = None  # a two-phase state is no start for a single-phase solve
         if pressure >= self.critical_pressure:
-            return self._spanned_solve(pressure, target, which, "supercritical", None,
-                                       "supercritical", "supercritical", near)
+            return self._tabled(pressure, target, key, "supercritical", None) or \
+                self._spanned_solve(pressure, target, which, "supercritical", None,
+                                    "supercritical", "supercritical", near)
         # (saturation checks the saturation range of the pressure)
         bubble, dew = self.saturation(pressure)
-        if target > prop(dew):
-            return self._spanned_solve(pressure, target, which, "superheated_vapor", dew,
-                                       None, "superheated_vapor", near)
-        if target < prop(bubble):
-            return self._spanned_solve(pressure, target, which, "subcooled_liquid", bubble,
-                                       "subcooled_liquid", None, near)
-        return self._two_phase_at(pressure, target, prop, bubble, dew,
-                                  1 if which == "enthalpy" else 2)
+        if target > (dew.enthalpy if enthalpy else dew.entropy):
+            return self._tabled(pressure, target, key, "superheated_vapor", dew) or \
+                self._spanned_solve(pressure, target, which, "superheated_vapor", dew,
+                                    None, "superheated_vapor", near)
+        if target < (bubble.enthalpy if enthalpy else bubble.entropy):
+            return self._tabled(pressure, target, key, "subcooled_liquid", bubble) or \
+                self._spanned_solve(pressure, target, which, "subcooled_liquid", bubble,
+                                    "subcooled_liquid", None, near)
+        return self._two_phase_at(pressure, target, _enthalpy_of if enthalpy else _entropy_of,
+                                  bubble, dew, 1 if enthalpy else 2)
 
     def _spanned_solve(self, pressure: float, target: float, which: str, phase: str,
                        start: State | None, low: str | None, high: str | None,
@@ -659,17 +668,14 @@ class PropertyModel:
         "supercritical": CP.iphase_supercritical_liquid,
     }
 
-    def _single_phase_pt(self, pressure: float, temperature: float, phase: str,
-                         saturated: State | None = None) -> State:
+    def _single_phase_pt(self, pressure: float, temperature: float, phase: str) -> State:
         """Single-phase state at ``pressure`` [Pa] and ``temperature`` [K]: Newton in density
-        on the equation of state with the phase imposed (:func:`heatlift.flash.density_at`),
-        from the library's tables' density where a pure fluid has them (``saturated``, the
-        saturated state of the phase at the pressure, tells whether it is on the phase's
-        side), else from the saturated phase's density; a pure fluid falls back on the
-        library's flash."""
+        on the equation of state with the phase imposed (:func:`heatlift.flash.density_at`)
+        from the saturated phase's density (:meth:`_density_guess`); a pure fluid falls back
+        on the library's flash. (Where the library's tables give a close start,
+        :meth:`_tabled` answers first.)"""
         flag = self._PHASE_FLAGS[phase]
-        rho = self._table_density(pressure, temperature, phase, flag, saturated) or \
-            self._density_guess(pressure, temperature, phase)
+        rho = self._density_guess(pressure, temperature, phase)
         state = self._state()
         try:
             point = flash.density_at(state, pressure, temperature, rho, flag,
@@ -703,22 +709,6 @@ class PropertyModel:
                 "subcooled_liquid"
         return _new(State, (pressure, temperature, point.enthalpy, point.entropy,
                             point.density, None, phase))
-
-    def _table_density(self, pressure: float, temperature: float, phase: str, flag: Any,
-                       saturated: State | None) -> float | None:
-        """A starting density [kg/m^3] from the library's tables (:mod:`heatlift.starts`) for a
-        vapour or a liquid below the critical pressure, if it lies on the phase's side of the
-        ``saturated`` state (the tables interpolate across the saturation line in the cells
-        it crosses); else None."""
-        if self._starts is None or saturated is None:
-            return None
-        tabled = self._starts.at(CP.PT_INPUTS, pressure, temperature, flag)
-        if tabled is None:
-            return None
-        rho = tabled[1]
-        if phase == "superheated_vapor":
-            return rho if rho < saturated.density else None
-        return rho if rho > saturated.density else None
 
     def _density_guess(self, pressure: float, temperature: float, phase: str) -> float:
         """A starting density [kg/m^3] for the phase at ``pressure`` [Pa], ``temperature`` [K].
@@ -762,18 +752,15 @@ class PropertyModel:
 
         Newton steps in temperature and density on the equation of state with the phase
         imposed (:func:`heatlift.flash.pressure_and`; each evaluation takes microseconds),
-        starting from the library's tables where a pure fluid has them (usually one
-        evaluation), else from ``near`` when given, else from the saturated state ``start``.
-        The start depends on the inputs alone, never on what the process solved before, so
+        starting from ``near`` when given, else from the saturated state ``start`` (where the
+        library's tables give a close start, :meth:`_tabled` answers first). The start
+        depends on the inputs alone, never on what the process solved before, so
         that equal requests give equal answers to the last digit. A pure fluid whose steps
         fail falls back on the library's own flash; a blend raises NotConverged. The answer
         must lie on the side of saturation the phase says.
         """
         flag = self._PHASE_FLAGS[phase]
         state = self._state()
-        found = self._solve_from_table(pressure, target, which, phase, flag, start)
-        if found is not None:
-            return found
 
         def solve(guess: tuple[float, float], handed_over: bool) -> flash.Point:
             point = flash.pressure_and(state, pressure, target, which, guess[0], guess[1],
@@ -815,22 +802,45 @@ class PropertyModel:
         a, b = (target, pressure) if which == "enthalpy" else (pressure, target)
         return self._single_phase_state(_point(self._update(pair, a, b)), pressure, phase)
 
-    def _solve_from_table(self, pressure: float, target: float, which: str, phase: str,
-                          flag: Any, start: State | None) -> State | None:
-        """:meth:`_single_phase_solve` from the library tables' start (usually one
-        evaluation); None where there are no tables or the steps from there fail or end on
-        the wrong root (the caller then tries its other starts)."""
-        tabled = self._table_start(pressure, target, which, flag)
+    def _tabled(self, pressure: float, target: float, key: Any, phase: str,
+                saturated: State | None) -> State | None:
+        """The single-phase state at ``pressure`` [Pa] whose property ``key`` (the library's
+        ``iT``, ``iHmass`` or ``iSmass``) is ``target``, from the library tables' start
+        (:mod:`heatlift.starts`) and one Newton step on the full equation of state
+        (:func:`heatlift.flash.refine`): one evaluation in all.
+
+        None where the fluid has no tables, the tables have no answer, the step from their
+        start is not short, or the point is not the state asked for: off the phase's side of
+        the ``saturated`` state (a vapour colder or denser than its dew point, a liquid hotter
+        or lighter than its bubble point: the tables interpolate across saturation in the
+        cells it crosses), a metastable root above the critical pressure (``saturated``
+        None), or beyond the equation of state's temperatures. The caller then solves from
+        its other starts.
+        """
+        starts = self._starts
+        if starts is None:
+            return None
+        flag = self._PHASE_FLAGS[phase]
+        tabled = starts.at(CP.HmassP_INPUTS, target, pressure, flag) if key == CP.iHmass else \
+            starts.at(_TABLE_PAIRS[key], pressure, target, flag)
         if tabled is None:
             return None
-        try:
-            point = flash.pressure_and(self._state(), pressure, target, which, tabled[0],
-                                       tabled[1], flag, self._constants)
-        except flash.FlashFailure:
+        point = flash.refine(self._state(), pressure, target, key, tabled[0], tabled[1], flag)
+        if point is None:
             return None
-        if not self._acceptable(point, start, phase):
+        temperature, rho = point.temperature, point.density
+        if not self.limits.temperature_min <= temperature <= self._t_max:
             return None
-        return self._single_phase_state(point, pressure, phase)
+        if saturated is None:
+            return None if self._metastable(point) else \
+                self._single_phase_state(point, pressure, phase)
+        if phase == "superheated_vapor":
+            if temperature < saturated.temperature or rho > saturated.density:
+                return None
+        elif temperature > saturated.temperature or rho < saturated.density:
+            return None
+        return _new(State, (pressure, temperature, point.enthalpy, point.entropy, rho, None,
+                            phase))
 
     def _acceptable(self, point: flash.Point, saturated: State | None, phase: str) -> bool:
         """Whether a solved ``point`` is the state asked for: on its ``phase``'s side of the
@@ -842,16 +852,6 @@ class PropertyModel:
         if phase == "superheated_vapor":
             return point.temperature >= saturated.temperature
         return point.temperature <= saturated.temperature
-
-    def _table_start(self, pressure: float, target: float, which: str, flag: Any
-                     ) -> tuple[float, float] | None:
-        """(T [K], rho [kg/m^3]) at ``pressure`` with that enthalpy or entropy from the
-        library's tables (:mod:`heatlift.starts`), None where there are none."""
-        if self._starts is None:
-            return None
-        if which == "enthalpy":
-            return self._starts.at(CP.HmassP_INPUTS, target, pressure, flag)
-        return self._starts.at(CP.PSmass_INPUTS, pressure, target, flag)
 
     def _liquid_line_start(self, pressure: float, target: float, which: str,
                            t_bubble: float) -> tuple[float, float]:
@@ -1198,6 +1198,18 @@ def _component_viscosity(
         return state.viscosity(), molar_mass
     finally:
         state.unspecify_phase()
+
+
+# the library's (pressure, value) input pairs, for :meth:`PropertyModel._tabled`
+_TABLE_PAIRS: dict[Any, Any] = {CP.iT: CP.PT_INPUTS, CP.iSmass: CP.PSmass_INPUTS}
+
+
+def _enthalpy_of(state: State) -> float:
+    return state.enthalpy
+
+
+def _entropy_of(state: State) -> float:
+    return state.entropy
 
 
 def _point(state: CP.AbstractState) -> flash.Point:

@@ -46,26 +46,23 @@ class PerKilogram(NamedTuple):
 
 def evaporator_mass_flow(spec: CycleSpec, solved: PerKilogram) -> float:
     """The evaporator mass flow [kg/s] from exactly one size of the request."""
-    sizes = {
-        "cooling_capacity": spec.cooling_capacity,
-        "heating_capacity": spec.heating_capacity,
-        "mass_flow": spec.mass_flow,
-    }
-    given = [k for k, v in sizes.items() if v is not None]
+    cooling, heating, flow = spec.cooling_capacity, spec.heating_capacity, spec.mass_flow
     displacement = spec.compressor.displacement
-    if len(given) > 1 or (given and displacement is not None):
+    if (cooling is not None) + (heating is not None) + (flow is not None) + \
+            (displacement is not None) > 1:
+        given = [k for k, v in (("cooling_capacity", cooling), ("heating_capacity", heating),
+                                ("mass_flow", flow), ("compressor.displacement", displacement))
+                 if v is not None]
         raise InvalidInput(
             "give exactly one size: cooling_capacity, heating_capacity, mass_flow or the "
-            "compressor displacement (got " + ", ".join(given + (
-                ["compressor.displacement"] if displacement is not None else [])) + ")",
-            field="cooling_capacity",
+            f"compressor displacement (got {', '.join(given)})", field="cooling_capacity",
         )
-    if spec.cooling_capacity is not None:
-        return spec.cooling_capacity / solved.cooling
-    if spec.heating_capacity is not None:
-        return spec.heating_capacity / solved.heating
-    if spec.mass_flow is not None:
-        return spec.mass_flow
+    if flow is not None:
+        return flow
+    if cooling is not None:
+        return cooling / solved.cooling
+    if heating is not None:
+        return heating / solved.heating
     if displacement is not None:
         eta_v = spec.compressor.volumetric_efficiency
         if eta_v is None:
@@ -96,14 +93,12 @@ def remarks(m: PropertyModel, spec: CycleSpec, solved: PerKilogram) -> list[Rema
             {"t": SIValue(t_dis, "temperature"),
              "limit": SIValue(spec.discharge_temperature_limit, "temperature")},
         ))
-    for label, state, _ in solved.states:
-        wet = state.phase == "two_phase" and (state.quality is None or state.quality < 1.0 - 1e-9)
-        if label.endswith("suction") and wet:
-            out.append(Remark(
-                "liquid_at_suction",
-                f"the {label.replace('_', ' ')} state is two-phase: liquid reaches the "
-                "compressor. Raise the superheat.",
-            ))
+    out.extend(Remark(
+        "liquid_at_suction",
+        f"the {label.replace('_', ' ')} state is two-phase: liquid reaches the compressor. "
+        "Raise the superheat.",
+    ) for label, state, _ in solved.states if state.phase == "two_phase"
+        and label.endswith("suction") and (state.quality is None or state.quality < 1.0 - 1e-9))
     ratio = solved.high_side_pressure / solved.low_side_pressure
     if solved.intermediate_pressure is None and ratio > PRESSURE_RATIO_LIMIT:
         out.append(Remark(
@@ -141,26 +136,27 @@ def assemble(m: PropertyModel, spec: CycleSpec, solved: PerKilogram) -> CycleRes
     t_e, t_c = solved.t_evaporating, solved.t_condensing
     cop_carnot = t_e / (t_c - t_e)
     cop = cooling / work
-    suction_flow = suction_share(solved) * flow
-    residual = (solved.heat_in + solved.work - solved.heat_out) / solved.heat_out
-    performance = Performance(
-        cooling_capacity=cooling,
-        heating_capacity=heating,
-        heat_rejected=solved.heat_out * flow,
-        compressor_power=work,
-        cop=cop,
-        cop_heating=heating / work,
-        mass_flow=flow,
-        suction_volume_flow=suction_flow / solved.suction.density,
-        volumetric_capacity=cooling / (suction_flow / solved.suction.density),
-        pressure_ratio=solved.high_side_pressure / solved.low_side_pressure,
-        discharge_temperature=solved.discharge.temperature,
-        cop_carnot=cop_carnot,
-        second_law_efficiency=cop / cop_carnot,
-        isentropic_efficiency=solved.isentropic_efficiency,
-        intermediate_pressure=solved.intermediate_pressure,
-        high_side_pressure=solved.high_side_pressure,
-        low_side_pressure=solved.low_side_pressure,
-        energy_balance_residual=residual,
-    )
-    return CycleResult(m.name, spec.circuit, points, performance, tuple(remarks(m, spec, solved)))
+    suction_volume_flow = suction_share(solved) * flow / solved.suction.density
+    high, low = solved.high_side_pressure, solved.low_side_pressure
+    performance = _new(Performance, (  # in the order of Performance's fields
+        cooling,  # cooling_capacity
+        heating,  # heating_capacity
+        solved.heat_out * flow,  # heat_rejected
+        work,  # compressor_power
+        cop,  # cop
+        heating / work,  # cop_heating
+        flow,  # mass_flow
+        suction_volume_flow,  # suction_volume_flow
+        cooling / suction_volume_flow,  # volumetric_capacity
+        high / low,  # pressure_ratio
+        solved.discharge.temperature,  # discharge_temperature
+        cop_carnot,  # cop_carnot
+        cop / cop_carnot,  # second_law_efficiency
+        solved.isentropic_efficiency,  # isentropic_efficiency
+        solved.intermediate_pressure,  # intermediate_pressure
+        high,  # high_side_pressure
+        low,  # low_side_pressure
+        (solved.heat_in + solved.work - solved.heat_out) / solved.heat_out,  # residual
+    ))
+    return _new(CycleResult, (m.name, spec.circuit, points, performance,
+                              tuple(remarks(m, spec, solved))))

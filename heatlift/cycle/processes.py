@@ -35,12 +35,11 @@ def saturation_pressure(m: PropertyModel, spec: SaturationSpec, field: str) -> f
             {"t": SIValue(t, "temperature"), "tc": SIValue(m.critical_temperature, "temperature")},
             field=f"{field}.temperature",
         )
-    m.check_saturation_temperature(t, field=f"{field}.temperature")
     if spec.basis == "dew":
-        return m.saturated_at_temperature(t, 1.0).pressure
+        return m.saturated_at_temperature(t, 1.0, f"{field}.temperature").pressure
     if spec.basis == "bubble":
-        return m.saturated_at_temperature(t, 0.0).pressure
-    p_dew = m.saturated_at_temperature(t, 1.0).pressure
+        return m.saturated_at_temperature(t, 0.0, f"{field}.temperature").pressure
+    p_dew = m.saturated_at_temperature(t, 1.0, f"{field}.temperature").pressure
     p_bubble = m.saturated_at_temperature(t, 0.0).pressure
     if abs(p_bubble - p_dew) < 1e-9 * p_dew:
         return p_dew

@@ -47,4 +47,4 @@ def solve_rated(m: PropertyModel, spec: CycleSpec) -> CycleResult:
                                 heat_loss_fraction=spec.compressor.heat_loss_fraction)
     sized = replace(spec, compressor=compressor, mass_flow=corrected.mass_flow)
     solved = assemble(m, sized, single_stage.solve(m, sized))
-    return replace(solved, remarks=solved.remarks + tuple(result.remarks))
+    return solved._replace(remarks=solved.remarks + tuple(result.remarks))

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import NamedTuple
 
 from heatlift.errors import Remark
@@ -74,8 +73,10 @@ class Performance(NamedTuple):
     energy_balance_residual: float
 
 
-@dataclass(frozen=True, slots=True)
-class CycleResult:
+class CycleResult(NamedTuple):
+    """A solved and sized circuit: its labelled states in flow order, the performance and
+    the reviewer's remarks (a named tuple like its parts: immutable, cheap to build)."""
+
     refrigerant: str
     circuit: str
     states: tuple[CyclePoint, ...]

@@ -51,23 +51,15 @@ def engine_spec(name: str, c: Conditions) -> cycle.CycleSpec:
     )
 
 
-def clear_saturation_cache(name: str) -> None:
-    """Forget the thread's remembered saturation answers of ``name`` (if the model keeps any)."""
-    local = model(name)._local
-    for attr in ("saturation",):
-        found = getattr(local, attr, None)
-        if isinstance(found, dict):
-            found.clear()
-
-
 def engine_cycle(name: str, inputs: list[Conditions]) -> Callable[[Conditions], object]:
     """``cycle.solve`` on the spec of each of ``inputs`` (built before the clock starts, as the
-    plain sequences get their inputs ready-made), with the thread's saturation answers
-    forgotten before each solve (Newton starts depend on the inputs alone)."""
+    plain sequences get their inputs ready-made), with the thread's remembered saturation
+    answers forgotten before each solve (Newton starts depend on the inputs alone)."""
     specs = {c: engine_spec(name, c) for c in inputs}
+    forget = model(name)._local.saturation.clear  # this thread's; emptied, never replaced
 
     def run(c: Conditions) -> object:
-        clear_saturation_cache(name)
+        forget()
         return cycle.solve(specs[c])
     return run
 
@@ -154,9 +146,15 @@ class CycleTiming:
     engine: float  # median seconds per cycle, heatlift.cycle.solve
     minimal: float | None = None  # median, minimal PropsSI sequence (pure only)
     failures: tuple[str, ...] = ()  # engine solves that raised (blends)
+    round_ratios: tuple[float, ...] = ()  # engine / baseline medians, round by round (pure)
 
     @property
     def ratio(self) -> float:
+        """The median of the round-by-round ratios where there are rounds, else the ratio of
+        the two medians. (This machine's speed changes by up to 1.5x for seconds at a time;
+        within a round both contenders run within about 50 ms of each other, at one speed.)"""
+        if self.round_ratios:
+            return median(self.round_ratios)
         return self.engine / self.baseline
 
 
@@ -168,21 +166,26 @@ def blend_names() -> list[str]:
     return [n for n in catalogue() if model(n).is_mixture]
 
 
-def time_pure(name: str, points: int = 8, rounds: int = 6) -> CycleTiming:
+def time_pure(name: str, points: int = 8, rounds: int = 12) -> CycleTiming:
+    """Both ways, round by round on fresh operating points (``points`` each, the same points
+    for both contenders, none repeated across rounds), the engine's saturation answers
+    forgotten before each solve: nothing is reused between calls."""
     fluid = model(name).refrigerant.coolprop_fluids[0]
     seed = sum(map(ord, name))
-    inputs = conditions_for(name, points, seed=seed)
-    engine_cycle(name, inputs)(inputs[0])  # the property model exists before timing
-    times = interleaved({"propssi": propssi_cycle(fluid),
-                         "minimal": propssi_cycle_minimal(fluid),
-                         "engine": engine_cycle(name, inputs)},
-                        inputs, rounds)
-    # each round re-uses the same points: the engine's caches are cleared before each solve,
-    # and fresh points for the engine alone follow, so that most of its timings repeat nothing
-    fresh = conditions_for(name, points * rounds, seed=seed + 1)
-    times["engine"] += interleaved({"engine": engine_cycle(name, fresh)}, fresh, 1)["engine"]
+    warm = conditions_for(name, 1, seed=seed - 1)
+    engine_cycle(name, warm)(warm[0])  # the property model exists before timing
+    times: dict[str, list[float]] = {"propssi": [], "minimal": [], "engine": []}
+    ratios = []
+    for r in range(rounds):
+        inputs = conditions_for(name, points, seed=seed + r)
+        found = interleaved({"propssi": propssi_cycle(fluid),
+                             "minimal": propssi_cycle_minimal(fluid),
+                             "engine": engine_cycle(name, inputs)}, inputs, 1)
+        for k, v in found.items():
+            times[k] += v
+        ratios.append(median(found["engine"]) / median(found["propssi"]))
     return CycleTiming(name, median(times["propssi"]), median(times["engine"]),
-                       median(times["minimal"]))
+                       median(times["minimal"]), round_ratios=tuple(ratios))
 
 
 def time_blend(name: str, baseline_points: int = 2, engine_points: int = 40) -> CycleTiming:
