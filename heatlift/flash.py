@@ -60,7 +60,7 @@ REFINE_STEPS = 4
 REFINE_REACH = 0.02
 
 _DT = CP.DmassT_INPUTS
-_IP, _IT, _ID, _IH, _IS = CP.iP, CP.iT, CP.iDmass, CP.iHmass, CP.iSmass
+_IP, _IT, _ID, _IH = CP.iP, CP.iT, CP.iDmass, CP.iHmass
 
 Fluid = tuple[float, float, float, float]
 _new = tuple.__new__
@@ -310,15 +310,17 @@ def refine(
     they do not reach a step shorter than LAST_STEP_TOL (or the library refuses an
     evaluation), and the caller then runs the full solve.
 
-    An evaluation gives p and y = h or s and the library's partial derivatives of both in T
-    and rho; the step solves
+    An evaluation gives p, h, s, the library's dp/drho|T = b and dp/dT|rho = a (and cv when
+    the temperature is unknown); by dh = T ds + dp / rho and the Maxwell relation
+    (ds/drho)_T = -(dp/dT)_rho / rho^2,
 
-        dp/dT dT + dp/drho drho = p* - p,   dy/dT dT + dy/drho drho = y* - y
+        dh/dT|rho = cv + a / rho,   dh/drho|T = (b - T a / rho) / rho,
+        ds/dT|rho = cv / T,         ds/drho|T = -a / rho^2,
 
-    (for the temperature itself: dT = 0 and drho = (p* - p) / (dp/drho)). The last step's
-    end is not evaluated: there y is y* (the step solves its linear equation exactly) and the
-    other of h and s follows from its derivatives, exact to the square of the step (below
-    1e-10).
+    and the step solves a dT + b drho = p* - p, dy/dT dT + dy/drho drho = y* - y (y = h or
+    s; for the temperature itself dT = 0 and drho = (p* - p) / b). The last step's end is
+    not evaluated: there y is y* (the step solves its linear equation exactly) and the other
+    of h and s follows from its derivatives, exact to the square of the step (below 1e-10).
     """
     update, partial = state.update, state.first_partial_deriv
     reach = REFINE_REACH
@@ -327,28 +329,35 @@ def refine(
         for _ in range(REFINE_STEPS):
             update(_DT, rho, temperature)
             dp = pressure - state.p()
-            dp_drho = partial(_IP, _ID, _IT)
-            if key == _IT:
-                d_t, d_rho = 0.0, dp / dp_drho
-                step = abs(d_rho) / rho
+            b, a = partial(_IP, _ID, _IT), partial(_IP, _IT, _ID)
+            h, s = state.hmass(), state.smass()
+            dh_drho = (b - temperature * a / rho) / rho
+            ds_drho = -a / (rho * rho)
+            if key is _IT:
+                d_rho = dp / b
+                if abs(d_rho) <= LAST_STEP_TOL * rho:
+                    return _new(Point, (temperature, rho + d_rho, h + dh_drho * d_rho,
+                                        s + ds_drho * d_rho))
+                d_t, step = 0.0, abs(d_rho / rho)
             else:
-                dp_dt = partial(_IP, _IT, _ID)
-                dy_dt, dy_drho = partial(key, _IT, _ID), partial(key, _ID, _IT)
-                dy = target - state.keyed_output(key)
-                det = dp_dt * dy_drho - dp_drho * dy_dt
-                d_t = (dp * dy_drho - dp_drho * dy) / det
-                d_rho = (dp_dt * dy - dy_dt * dp) / det
-                step = max(abs(d_t) / temperature, abs(d_rho) / rho)
-            if step <= LAST_STEP_TOL:
-                if key == _IT:
-                    return _new(Point, (temperature, rho + d_rho,
-                                        state.hmass() + partial(_IH, _ID, _IT) * d_rho,
-                                        state.smass() + partial(_IS, _ID, _IT) * d_rho))
-                other = _IS if key == _IH else _IH
-                carried = state.keyed_output(other) + partial(other, _IT, _ID) * d_t + \
-                    partial(other, _ID, _IT) * d_rho
-                return _new(Point, (temperature + d_t, rho + d_rho) +
-                            ((target, carried) if key == _IH else (carried, target)))
+                cv = state.cvmass()
+                dh_dt, ds_dt = cv + a / rho, cv / temperature
+                if key is _IH:
+                    dy_dt, dy_drho, dy = dh_dt, dh_drho, target - h
+                else:
+                    dy_dt, dy_drho, dy = ds_dt, ds_drho, target - s
+                det = a * dy_drho - b * dy_dt
+                d_t = (dp * dy_drho - b * dy) / det
+                d_rho = (a * dy - dy_dt * dp) / det
+                step = abs(d_t / temperature)
+                if abs(d_rho) > step * rho:
+                    step = abs(d_rho / rho)
+                if step <= LAST_STEP_TOL:
+                    if key is _IH:
+                        return _new(Point, (temperature + d_t, rho + d_rho, target,
+                                            s + ds_dt * d_t + ds_drho * d_rho))
+                    return _new(Point, (temperature + d_t, rho + d_rho,
+                                        h + dh_dt * d_t + dh_drho * d_rho, target))
             if not step < reach:
                 return None
             reach = step

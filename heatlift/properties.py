@@ -244,9 +244,8 @@ class PropertyModel:
         self.check_saturation_temperature(temperature, field)
         if self._one_temperature:
             # a pure fluid: both coexisting phases from one flash, remembered by pressure
-            pair = _coexisting(self._flashed(CP.QT_INPUTS, quality, temperature))
-            self._saturation_cache()[pair[0].pressure] = pair
-            return pair[quality == 1.0]
+            return self._coexisting(self._flashed(CP.QT_INPUTS, quality, temperature))[
+                quality == 1.0]
         table = self._table()
         if table is not None:
             found = table.pressure_at(temperature, quality == 1.0)
@@ -303,6 +302,17 @@ class PropertyModel:
         pair = self._saturation_cache()[bubble.pressure] = (bubble, dew)
         return pair
 
+    def _coexisting(self, state: CP.AbstractState) -> tuple[State, State]:
+        """(bubble, dew) of a pure fluid from the ``state`` of one saturation flash, remembered
+        at their pressure."""
+        p, t = state.p(), state.T()
+        liq, vap = state.saturated_liquid_keyed_output, state.saturated_vapor_keyed_output
+        pair = self._saturation_cache()[p] = (
+            _new(State, (p, t, liq(CP.iHmass), liq(CP.iSmass), liq(CP.iDmass), 0.0, "two_phase")),
+            _new(State, (p, t, vap(CP.iHmass), vap(CP.iSmass), vap(CP.iDmass), 1.0, "two_phase")),
+        )
+        return pair
+
     def _remember_side(self, found: State) -> None:
         """Remember one saturated state (``quality`` 0 or 1) beside its other side, if known."""
         cache = self._saturation_cache()
@@ -348,7 +358,7 @@ class PropertyModel:
         if not self.refrigerant.is_blend:
             # one flash of a pure fluid yields both coexisting phases: keep both (not for the
             # pseudo-pure blends R404A, R407C ...: their bubble and dew points differ)
-            bubble, dew = self._remember_pair(*_coexisting(state))
+            bubble, dew = self._coexisting(state)
             return dew if side else bubble if quality == 0.0 else \
                 self._snapshot(state, quality, "two_phase")
         result = self._snapshot(state, quality, "two_phase")
@@ -821,11 +831,12 @@ class PropertyModel:
         if starts is None:
             return None
         flag = self._PHASE_FLAGS[phase]
-        tabled = starts.at(CP.HmassP_INPUTS, target, pressure, flag) if key == CP.iHmass else \
+        tabled = starts.at(CP.HmassP_INPUTS, target, pressure, flag) if key is CP.iHmass else \
             starts.at(_TABLE_PAIRS[key], pressure, target, flag)
         if tabled is None:
             return None
-        point = flash.refine(self._state(), pressure, target, key, tabled[0], tabled[1], flag)
+        point = flash.refine(self._local.state or self._state(), pressure, target, key,
+                             tabled[0], tabled[1], flag)
         if point is None:
             return None
         temperature, rho = point.temperature, point.density
@@ -1235,16 +1246,6 @@ def _mixed(bubble: State, dew: State, quality: float) -> State:
         quality,
         "two_phase",
     ))
-
-
-def _coexisting(state: CP.AbstractState) -> tuple[State, State]:
-    """(bubble, dew) of a pure fluid from the state of one saturation flash."""
-    p, t = state.p(), state.T()
-    liq, vap = state.saturated_liquid_keyed_output, state.saturated_vapor_keyed_output
-    return (
-        _new(State, (p, t, liq(CP.iHmass), liq(CP.iSmass), liq(CP.iDmass), 0.0, "two_phase")),
-        _new(State, (p, t, vap(CP.iHmass), vap(CP.iSmass), vap(CP.iDmass), 1.0, "two_phase")),
-    )
 
 
 @cache

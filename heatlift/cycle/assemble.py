@@ -78,7 +78,11 @@ def evaporator_mass_flow(spec: CycleSpec, solved: PerKilogram) -> float:
 
 def suction_share(solved: PerKilogram) -> float:
     """Flow through the (low-stage) compressor suction per kg of evaporator flow [1]."""
-    return next(share for _, state, share in solved.states if state is solved.suction)
+    suction = solved.suction
+    for _, state, share in solved.states:
+        if state is suction:
+            return share
+    raise ValueError("the circuit's suction state is not among its states")
 
 
 def remarks(m: PropertyModel, spec: CycleSpec, solved: PerKilogram) -> list[Remark]:
@@ -93,12 +97,14 @@ def remarks(m: PropertyModel, spec: CycleSpec, solved: PerKilogram) -> list[Rema
             {"t": SIValue(t_dis, "temperature"),
              "limit": SIValue(spec.discharge_temperature_limit, "temperature")},
         ))
-    out.extend(Remark(
-        "liquid_at_suction",
-        f"the {label.replace('_', ' ')} state is two-phase: liquid reaches the compressor. "
-        "Raise the superheat.",
-    ) for label, state, _ in solved.states if state.phase == "two_phase"
-        and label.endswith("suction") and (state.quality is None or state.quality < 1.0 - 1e-9))
+    for label, state, _ in solved.states:
+        if state.phase == "two_phase" and label.endswith("suction") and (
+                state.quality is None or state.quality < 1.0 - 1e-9):
+            out.append(Remark(
+                "liquid_at_suction",
+                f"the {label.replace('_', ' ')} state is two-phase: liquid reaches the "
+                "compressor. Raise the superheat.",
+            ))
     ratio = solved.high_side_pressure / solved.low_side_pressure
     if solved.intermediate_pressure is None and ratio > PRESSURE_RATIO_LIMIT:
         out.append(Remark(

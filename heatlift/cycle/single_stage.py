@@ -24,6 +24,8 @@ from heatlift.cycle.low_side import high_side, low_side
 from heatlift.cycle.spec import CycleSpec
 from heatlift.properties import PropertyModel, State
 
+_new = tuple.__new__  # a named tuple from the tuple of its fields, without its Python __new__
+
 
 def liquid_suction_exchange(
     m: PropertyModel, liquid: State, vapor: State, effectiveness: float
@@ -64,18 +66,19 @@ def solve(m: PropertyModel, spec: CycleSpec) -> PerKilogram:
         ("expansion_valve_inlet", valve_in, 1.0),
         ("evaporator_inlet", evap_in, 1.0),
     )
-    return PerKilogram(
-        states=states,
-        cooling=cooling,
-        heating=heating,
-        heat_in=cooling + low.suction_line_gain,
-        heat_out=heating + (cond_out.enthalpy - liquid.enthalpy) + shell_loss,
-        work=compression.work,
-        suction=suction,
-        discharge=compression.discharge,
-        isentropic_efficiency=compression.isentropic_efficiency,
-        t_evaporating=proc.mean_saturation_temperature(m, low.p_evaporator_outlet),
-        t_condensing=proc.mean_saturation_temperature(m, high.p_condenser_inlet),
-        low_side_pressure=suction.pressure,
-        high_side_pressure=compression.discharge.pressure,
-    )
+    return _new(PerKilogram, (  # in the order of PerKilogram's fields
+        states,
+        cooling,  # cooling
+        heating,  # heating
+        cooling + low.suction_line_gain,  # heat_in
+        heating + (cond_out.enthalpy - liquid.enthalpy) + shell_loss,  # heat_out
+        compression.work,  # work
+        suction,  # suction
+        compression.discharge,  # discharge
+        compression.isentropic_efficiency,  # isentropic_efficiency
+        proc.mean_saturation_temperature(m, low.p_evaporator_outlet),  # t_evaporating
+        proc.mean_saturation_temperature(m, high.p_condenser_inlet),  # t_condensing
+        suction.pressure,  # low_side_pressure
+        compression.discharge.pressure,  # high_side_pressure
+        None,  # intermediate_pressure
+    ))

@@ -55,12 +55,12 @@ def engine_cycle(name: str, inputs: list[Conditions]) -> Callable[[Conditions], 
     """``cycle.solve`` on the spec of each of ``inputs`` (built before the clock starts, as the
     plain sequences get their inputs ready-made), with the thread's remembered saturation
     answers forgotten before each solve (Newton starts depend on the inputs alone)."""
-    specs = {c: engine_spec(name, c) for c in inputs}
+    specs = {id(c): engine_spec(name, c) for c in inputs}  # (by identity: a cheap look-up)
     forget = model(name)._local.saturation.clear  # this thread's; emptied, never replaced
 
     def run(c: Conditions) -> object:
         forget()
-        return cycle.solve(specs[c])
+        return cycle.solve(specs[id(c)])
     return run
 
 
@@ -166,10 +166,15 @@ def blend_names() -> list[str]:
     return [n for n in catalogue() if model(n).is_mixture]
 
 
-def time_pure(name: str, points: int = 8, rounds: int = 12) -> CycleTiming:
+def time_pure(name: str, points: int = 32, rounds: int = 8) -> CycleTiming:
     """Both ways, round by round on fresh operating points (``points`` each, the same points
     for both contenders, none repeated across rounds), the engine's saturation answers
-    forgotten before each solve: nothing is reused between calls."""
+    forgotten before each solve: nothing is reused between calls.
+
+    A round's block of engine solves must be long: after a block of the plain calls the
+    engine's first few solves run up to 3x slower (the processor's caches and branch
+    history hold the other contender's code), and only by about the tenth does it run as
+    it does in a sweep; with 32 points the median is that of a sweep."""
     fluid = model(name).refrigerant.coolprop_fluids[0]
     seed = sum(map(ord, name))
     warm = conditions_for(name, 1, seed=seed - 1)

@@ -31,7 +31,7 @@ def main(argv: list[str]) -> int:
     print("Target 1: pure fluids, engine cycle / plain PropsSI sequence (<= 0.05)")
     worst = 0.0
     for name in cycles.pure_names():
-        t = cycles.time_pure(name, points=4 if quick else 8, rounds=3 if quick else 12)
+        t = cycles.time_pure(name, points=16 if quick else 32, rounds=3 if quick else 8)
         worst = max(worst, t.ratio)
         print(f"  {name:11s} PropsSI {fmt_time(t.baseline):>9s} "
               f"(minimal {fmt_time(t.minimal or 0)})  engine {fmt_time(t.engine):>9s}  "
