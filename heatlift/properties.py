@@ -41,7 +41,11 @@ PHASES = ("subcooled_liquid", "two_phase", "superheated_vapor", "supercritical")
 _MAX_ITERATIONS = 40
 _RELATIVE_TOLERANCE = 1e-10
 _new = tuple.__new__  # builds a named tuple from a tuple of its fields (see State)
+_REMEMBERED = 512  # saturation answers a thread keeps (by pressure) before it starts afresh
 _LIMIT_SLACK = 1e-9  # relative: a limit given in other units may come back rounded in the last bit
+# the library's keys and input pairs read on the hot paths (a module attribute each, once)
+_IT, _IH, _IS, _ID = CP.iT, CP.iHmass, CP.iSmass, CP.iDmass
+_QT, _HP = CP.QT_INPUTS, CP.HmassP_INPUTS
 _KINDS = {"temperature": "temperature", "pressure": "pressure", "enthalpy": "specific_enthalpy",
           "entropy": "specific_entropy", "quality": "dimensionless"}
 
@@ -117,6 +121,7 @@ class PropertyModel:
         self.critical_pressure = self.limits.critical_pressure
         self._constants = flash.constants(self._state())  # (R, M, rho_r, T_r)
         self._t_max, self._p_max = self._state().Tmax(), self._state().pmax()
+        self._t_min = self.limits.temperature_min
         # a pure fluid's bubble and dew coincide; the library's pseudo-pure blends (R404A,
         # R407C, R410A, R507A) keep a glide between separate bubble and dew lines
         self._one_temperature = refrigerant.kind == "pure"
@@ -244,8 +249,7 @@ class PropertyModel:
         self.check_saturation_temperature(temperature, field)
         if self._one_temperature:
             # a pure fluid: both coexisting phases from one flash, remembered by pressure
-            return self._coexisting(self._flashed(CP.QT_INPUTS, quality, temperature))[
-                quality == 1.0]
+            return self._coexisting(self._flashed(_QT, quality, temperature))[quality == 1.0]
         table = self._table()
         if table is not None:
             found = table.pressure_at(temperature, quality == 1.0)
@@ -292,7 +296,7 @@ class PropertyModel:
     def _saturation_cache(self) -> dict[float, tuple[State | None, State | None]]:
         """The thread's remembered saturation answers, emptied when it holds 512 pressures."""
         cache = self._local.saturation
-        if len(cache) >= 512:
+        if len(cache) >= _REMEMBERED:
             cache.clear()
         return cache
 
@@ -307,10 +311,12 @@ class PropertyModel:
         at their pressure."""
         p, t = state.p(), state.T()
         liq, vap = state.saturated_liquid_keyed_output, state.saturated_vapor_keyed_output
-        pair = self._saturation_cache()[p] = (
-            _new(State, (p, t, liq(CP.iHmass), liq(CP.iSmass), liq(CP.iDmass), 0.0, "two_phase")),
-            _new(State, (p, t, vap(CP.iHmass), vap(CP.iSmass), vap(CP.iDmass), 1.0, "two_phase")),
-        )
+        pair = (_new(State, (p, t, liq(_IH), liq(_IS), liq(_ID), 0.0, "two_phase")),
+                _new(State, (p, t, vap(_IH), vap(_IS), vap(_ID), 1.0, "two_phase")))
+        cache = self._local.saturation
+        if len(cache) >= _REMEMBERED:
+            cache.clear()
+        cache[p] = pair
         return pair
 
     def _remember_side(self, found: State) -> None:
@@ -323,10 +329,8 @@ class PropertyModel:
         """(bubble, dew) at ``pressure`` [Pa], each as :meth:`saturated_at_pressure` gives it
         (one call for the pair that most states need)."""
         found = self._local.saturation.get(pressure)
-        if found is not None:
-            bubble, dew = found
-            if bubble is not None and dew is not None:
-                return bubble, dew
+        if found is not None and found[0] is not None and found[1] is not None:
+            return found  # type: ignore[return-value]
         return self.saturated_at_pressure(pressure, 0.0), self.saturated_at_pressure(pressure, 1.0)
 
     def saturated_at_pressure(self, pressure: float, quality: float) -> State:
@@ -406,16 +410,17 @@ class PropertyModel:
 
     def at_pressure_temperature(self, pressure: float, temperature: float) -> State:
         """State at ``pressure`` [Pa] and ``temperature`` [K]; two-phase only for blends."""
-        self.check_equation_range(pressure, temperature)
+        if temperature > self._t_max or pressure > self._p_max:
+            self.check_equation_range(pressure, temperature)
         if pressure >= self.critical_pressure or temperature >= self.critical_temperature:
             return self._single_phase_pt(pressure, temperature, "supercritical")
         # (saturation checks the saturation range of the pressure)
         bubble, dew = self.saturation(pressure)
         if temperature > dew.temperature:
-            return self._tabled(pressure, temperature, CP.iT, "superheated_vapor", dew) or \
+            return self._tabled(pressure, temperature, _IT, "superheated_vapor", dew) or \
                 self._single_phase_pt(pressure, temperature, "superheated_vapor")
         if temperature < bubble.temperature:
-            return self._tabled(pressure, temperature, CP.iT, "subcooled_liquid", bubble) or \
+            return self._tabled(pressure, temperature, _IT, "subcooled_liquid", bubble) or \
                 self._single_phase_pt(pressure, temperature, "subcooled_liquid")
         if dew.temperature - bubble.temperature < 1e-9:
             raise InvalidInput(
@@ -603,7 +608,7 @@ class PropertyModel:
         bubble and dew points, a single phase from the library tables' start
         (:meth:`_tabled`), else by :meth:`_spanned_solve`."""
         enthalpy = which == "enthalpy"
-        key = CP.iHmass if enthalpy else CP.iSmass
+        key = _IH if enthalpy else _IS
         if near is not None and near.quality is not None:
             near = None  # a two-phase state is no start for a single-phase solve
         if pressure >= self.critical_pressure:
@@ -634,7 +639,7 @@ class PropertyModel:
         except (NotConverged, PropertyFailure):
             self._check_span(pressure, target, which, low, high)
             raise
-        if not self.limits.temperature_min <= found.temperature <= self._t_max:
+        if not self._t_min <= found.temperature <= self._t_max:
             self._check_span(pressure, target, which, low, high)
         return found
 
@@ -831,7 +836,7 @@ class PropertyModel:
         if starts is None:
             return None
         flag = self._PHASE_FLAGS[phase]
-        tabled = starts.at(CP.HmassP_INPUTS, target, pressure, flag) if key is CP.iHmass else \
+        tabled = starts.at(_HP, target, pressure, flag) if key is _IH else \
             starts.at(_TABLE_PAIRS[key], pressure, target, flag)
         if tabled is None:
             return None
@@ -840,7 +845,7 @@ class PropertyModel:
         if point is None:
             return None
         temperature, rho = point.temperature, point.density
-        if not self.limits.temperature_min <= temperature <= self._t_max:
+        if not self._t_min <= temperature <= self._t_max:
             return None
         if saturated is None:
             return None if self._metastable(point) else \
