@@ -9,6 +9,8 @@ from heatlift.cycle.spec import CycleSpec
 from heatlift.errors import InvalidInput, SIValue
 from heatlift.properties import PropertyModel, State
 
+_new = tuple.__new__  # a named tuple from the tuple of its fields, without its Python __new__
+
 
 class LowSide(NamedTuple):
     """Evaporator outlet, the vapour after the suction line [SI], and the heat it picked up."""
@@ -35,7 +37,7 @@ def low_side(m: PropertyModel, spec: CycleSpec) -> LowSide:
         after = m.at_pressure_enthalpy(p_suction, evap_out.enthalpy)
     p_in = p_out + proc.drop_in_pressure(m, drops.evaporator, p_out, True,
                                          "pressure_drops.evaporator")
-    return LowSide(p_out, p_in, evap_out, after, after.enthalpy - evap_out.enthalpy)
+    return _new(LowSide, (p_out, p_in, evap_out, after, after.enthalpy - evap_out.enthalpy))
 
 
 class HighSide(NamedTuple):
@@ -62,7 +64,7 @@ def high_side(m: PropertyModel, spec: CycleSpec, p_low: float) -> HighSide:
                                          "pressure_drops.discharge_line")
     p_out = p_in - proc.drop_in_pressure(m, drops.condenser, p_in, False,
                                          "pressure_drops.condenser")
-    return HighSide(p_in, p_out, p_dis)
+    return _new(HighSide, (p_in, p_out, p_dis))
 
 
 def intermediate_pressure(spec: CycleSpec, p_low: float, p_high: float) -> float:

@@ -11,6 +11,7 @@ from heatlift.cycle.spec import CompressorSpec, PressureDrop, SaturationSpec
 from heatlift.errors import InvalidInput, NotConverged, OutOfRange, SIValue
 from heatlift.properties import PropertyModel, State
 
+_new = tuple.__new__  # a named tuple from the tuple of its fields, without its Python __new__
 # a superheat or subcooling below this [K] is saturation: the state is taken on the curve
 SATURATED = 1e-6
 
@@ -118,7 +119,7 @@ def compress(
         pressure, suction.enthalpy + work * (1.0 - compressor.heat_loss_fraction),
         near=isentropic,
     )
-    return Compression(suction, discharge, work, eta)
+    return _new(Compression, (suction, discharge, work, eta))
 
 
 def superheated(m: PropertyModel, pressure: float, superheat: float) -> State:

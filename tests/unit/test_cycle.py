@@ -49,6 +49,38 @@ CIRCUIT_CASES = {
 }
 
 
+def test_every_figure_of_merit_is_what_its_name_says():
+    # the sized result is built positionally on the hot path: each figure against its
+    # definition from the states, so that no two can trade places unnoticed
+    r = solve(spec())
+    p = r.performance
+    h = {pt.label: pt.state.enthalpy for pt in r.states}
+    suction = r.point("compressor_suction").state
+    discharge = r.point("compressor_discharge").state
+    flow = p.mass_flow
+    assert flow == pytest.approx(10e3 / (h["evaporator_outlet"] - h["evaporator_inlet"]))
+    assert p.cooling_capacity == pytest.approx(10e3)
+    assert p.compressor_power == pytest.approx(flow * (h["compressor_discharge"]
+                                                        - h["compressor_suction"]))
+    assert p.heating_capacity == pytest.approx(flow * (h["condenser_inlet"]
+                                                        - h["condenser_outlet"]))
+    assert p.heat_rejected == pytest.approx(p.heating_capacity)  # no line or shell losses
+    assert p.cop == pytest.approx(p.cooling_capacity / p.compressor_power)
+    assert p.cop_heating == pytest.approx(p.heating_capacity / p.compressor_power)
+    assert p.suction_volume_flow == pytest.approx(flow / suction.density)
+    assert p.volumetric_capacity == pytest.approx(p.cooling_capacity / p.suction_volume_flow)
+    assert p.pressure_ratio == pytest.approx(discharge.pressure / suction.pressure)
+    assert p.discharge_temperature == discharge.temperature
+    t_e = r.point("evaporator_outlet").state.temperature - 5.0  # superheat 5 K
+    t_c = r.point("condenser_outlet").state.temperature + 3.0  # subcooling 3 K
+    assert p.cop_carnot == pytest.approx(t_e / (t_c - t_e), rel=1e-6)
+    assert p.second_law_efficiency == pytest.approx(p.cop / p.cop_carnot)
+    assert p.isentropic_efficiency == 0.7
+    assert p.intermediate_pressure is None
+    assert (p.high_side_pressure, p.low_side_pressure) == (discharge.pressure, suction.pressure)
+    assert abs(p.energy_balance_residual) < 1e-9
+
+
 @pytest.mark.parametrize("name", list(CIRCUIT_CASES))
 def test_energy_balance_closes_for_every_circuit(name):
     # adiabatic compressor, no line heat exchange: heat rejected = cooling + power
