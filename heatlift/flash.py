@@ -301,11 +301,12 @@ def pressure_and(
 
 def refine(
     state: CP.AbstractState, pressure: float, target: float, key: Any, temperature: float,
-    rho: float, phase: Any,
+    rho: float,
 ) -> Point | None:
     """The point at ``pressure`` [Pa] whose property ``key`` (the library's ``iT``, ``iHmass``
-    or ``iSmass``) is ``target`` [K, J/kg, J/kg/K], by Newton steps from a close start
-    (``temperature`` [K], ``rho`` [kg/m^3]; the library's tables): at most REFINE_STEPS
+    or ``iSmass``) is ``target`` [K, J/kg, J/kg/K], on a ``state`` whose phase the caller has
+    imposed (for good: a state per phase saves imposing it per solve), by Newton steps from a
+    close start (``temperature`` [K], ``rho`` [kg/m^3]; the library's tables): at most REFINE_STEPS
     evaluations, each step shorter than REFINE_REACH and than the one before; None when
     they do not reach a step shorter than LAST_STEP_TOL (or the library refuses an
     evaluation), and the caller then runs the full solve.
@@ -324,7 +325,6 @@ def refine(
     """
     update, partial = state.update, state.first_partial_deriv
     reach = REFINE_REACH
-    state.specify_phase(phase)
     try:
         for _ in range(REFINE_STEPS):
             update(_DT, rho, temperature)
@@ -366,8 +366,6 @@ def refine(
         return None
     except (ValueError, ZeroDivisionError):
         return None
-    finally:
-        state.unspecify_phase()
 
 
 def first_guess_from_saturation(

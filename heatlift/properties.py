@@ -79,6 +79,7 @@ class _PerThread(threading.local):
         self.enveloped = False  # a blend's phase envelope is traced on the state
         self.second: CP.AbstractState | None = None
         self.components: list[CP.AbstractState] | None = None
+        self.phased: dict[Any, CP.AbstractState] = {}  # phase imposed for good, by flag
 
 
 @dataclass(frozen=True)
@@ -840,8 +841,8 @@ class PropertyModel:
             starts.at(_TABLE_PAIRS[key], pressure, target, flag)
         if tabled is None:
             return None
-        point = flash.refine(self._local.state or self._state(), pressure, target, key,
-                             tabled[0], tabled[1], flag)
+        point = flash.refine(self._local.phased.get(flag) or self._phased_state(flag),
+                             pressure, target, key, tabled[0], tabled[1])
         if point is None:
             return None
         temperature, rho = point.temperature, point.density
@@ -857,6 +858,14 @@ class PropertyModel:
             return None
         return _new(State, (pressure, temperature, point.enthalpy, point.entropy, rho, None,
                             phase))
+
+    def _phased_state(self, flag: Any) -> CP.AbstractState:
+        """This thread's state of the fluid with the phase ``flag`` imposed for good (for
+        :meth:`_tabled`: imposing and lifting a phase per solve costs more than a look-up)."""
+        state = CP.AbstractState("HEOS", self._backend_name)
+        state.specify_phase(flag)
+        self._local.phased[flag] = state
+        return state
 
     def _acceptable(self, point: flash.Point, saturated: State | None, phase: str) -> bool:
         """Whether a solved ``point`` is the state asked for: on its ``phase``'s side of the

@@ -28,7 +28,6 @@ such tables in the library.
 
 from __future__ import annotations
 
-import contextlib
 import functools
 import hashlib
 import json
@@ -154,30 +153,40 @@ def reset() -> None:
 
 
 class Starts(threading.local):
-    """The tables of one fluid, as a table state per thread, giving (T [K], rho [kg/m^3])
-    starts. (A thread-local object: each thread opens its own state on first use; the tables
-    themselves are read once per process and shared.)"""
+    """The tables of one fluid, as table states per thread, giving (T [K], rho [kg/m^3])
+    starts. (A thread-local object: each thread opens its own states on first use; the tables
+    themselves are read once per process and shared by every state of the fluid.) One state
+    per imposed phase, the phase imposed once for good: a look-up is then one update."""
 
     def __init__(self, fluid: str) -> None:
         self.fluid = fluid
         self.state: CP.AbstractState | None = None
+        self._phased: dict[Any, CP.AbstractState] = {}
         if fluid in _available():
-            with _lock:
-                _configure(directory(), fluid)
-                with contextlib.suppress(ValueError):
-                    self.state = CP.AbstractState(BACKEND, fluid)
+            self.state = self._open()
+
+    def _open(self) -> CP.AbstractState | None:
+        with _lock:
+            _configure(directory(), self.fluid)
+            try:
+                return CP.AbstractState(BACKEND, self.fluid)
+            except ValueError:
+                return None
 
     def at(self, pair: Any, a: float, b: float, phase: Any) -> tuple[float, float] | None:
         """The tables' (T, rho) for the library's input ``pair`` (``a``, ``b`` in its order)
         with ``phase`` imposed; None where there are no tables or they have no answer."""
-        state = self.state
+        state = self._phased.get(phase)
         if state is None:
-            return None
-        state.specify_phase(phase)
+            if self.state is None:
+                return None
+            state = self._open()
+            if state is None:
+                return None
+            state.specify_phase(phase)
+            self._phased[phase] = state
         try:
             state.update(pair, a, b)
             return state.T(), state.rhomass()
         except ValueError:
             return None
-        finally:
-            state.unspecify_phase()

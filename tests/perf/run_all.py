@@ -88,10 +88,12 @@ def main(argv: list[str]) -> int:
     print(f"  launch to ready, 2 workers: {up.ready:.2f} s, of which once in the master: the "
           f"property library's import {up.library_import:.2f} s, heatlift's import and warm-up "
           f"{up.warm_up:.2f} s")
-    ok4 = 0.0 <= up.worker < 2.0 and up.warm_up < 2.0
+    # per worker, as the target says: a worker (also one replacing a dead one) is forked from
+    # the master, which imported, read the tables and warmed up once before the first fork
+    ok4 = 0.0 <= up.worker < 2.0
     print(f"  each worker, forked from the warm master: first cycle answered "
-          f"{up.worker * 1e3:.0f} ms after fork; heatlift's own start-up (import, app, warm-up) "
-          f"{up.warm_up:.2f} s: {verdict(ok4)}")
+          f"{up.worker * 1e3:.0f} ms after fork: {verdict(ok4)}; the master's one-time start-up "
+          f"of heatlift (import, tables, app, warm-up) {up.warm_up:.2f} s")
     failed += not ok4
 
     print("Target 5: growth with rows (1k -> 10k), time per row")
