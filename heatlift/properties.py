@@ -837,12 +837,18 @@ class PropertyModel:
         if starts is None:
             return None
         flag = self._PHASE_FLAGS[phase]
-        tabled = starts.at(_HP, target, pressure, flag) if key is _IH else \
-            starts.at(_TABLE_PAIRS[key], pressure, target, flag)
-        if tabled is None:
+        table = starts.phased.get(flag) or starts.state_for(flag)  # (Starts.at, inline)
+        if table is None:
+            return None
+        try:
+            if key is _IH:
+                table.update(_HP, target, pressure)
+            else:
+                table.update(_TABLE_PAIRS[key], pressure, target)
+        except ValueError:
             return None
         point = flash.refine(self._local.phased.get(flag) or self._phased_state(flag),
-                             pressure, target, key, tabled[0], tabled[1])
+                             pressure, target, key, table.T(), table.rhomass())
         if point is None:
             return None
         temperature, rho = point.temperature, point.density

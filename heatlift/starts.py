@@ -161,7 +161,7 @@ class Starts(threading.local):
     def __init__(self, fluid: str) -> None:
         self.fluid = fluid
         self.state: CP.AbstractState | None = None
-        self._phased: dict[Any, CP.AbstractState] = {}
+        self.phased: dict[Any, CP.AbstractState] = {}  # by imposed phase, this thread's
         if fluid in _available():
             self.state = self._open()
 
@@ -173,18 +173,23 @@ class Starts(threading.local):
             except ValueError:
                 return None
 
+    def state_for(self, phase: Any) -> CP.AbstractState | None:
+        """This thread's table state with ``phase`` imposed (opened on first use; the hot
+        path reads :attr:`phased` first); None where there are no tables."""
+        state = self.phased.get(phase)
+        if state is None and self.state is not None:
+            state = self._open()
+            if state is not None:
+                state.specify_phase(phase)
+                self.phased[phase] = state
+        return state
+
     def at(self, pair: Any, a: float, b: float, phase: Any) -> tuple[float, float] | None:
         """The tables' (T, rho) for the library's input ``pair`` (``a``, ``b`` in its order)
         with ``phase`` imposed; None where there are no tables or they have no answer."""
-        state = self._phased.get(phase)
+        state = self.state_for(phase)
         if state is None:
-            if self.state is None:
-                return None
-            state = self._open()
-            if state is None:
-                return None
-            state.specify_phase(phase)
-            self._phased[phase] = state
+            return None
         try:
             state.update(pair, a, b)
             return state.T(), state.rhomass()
