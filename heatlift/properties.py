@@ -295,7 +295,8 @@ class PropertyModel:
         return state
 
     def _saturation_cache(self) -> dict[float, tuple[State | None, State | None]]:
-        """The thread's remembered saturation answers, emptied when it holds 512 pressures."""
+        """The thread's remembered saturation answers, emptied when it holds _REMEMBERED
+        pressures."""
         cache = self._local.saturation
         if len(cache) >= _REMEMBERED:
             cache.clear()
@@ -312,12 +313,9 @@ class PropertyModel:
         at their pressure."""
         p, t = state.p(), state.T()
         liq, vap = state.saturated_liquid_keyed_output, state.saturated_vapor_keyed_output
-        pair = (_new(State, (p, t, liq(_IH), liq(_IS), liq(_ID), 0.0, "two_phase")),
-                _new(State, (p, t, vap(_IH), vap(_IS), vap(_ID), 1.0, "two_phase")))
-        cache = self._local.saturation
-        if len(cache) >= _REMEMBERED:
-            cache.clear()
-        cache[p] = pair
+        pair = self._saturation_cache()[p] = (
+            _new(State, (p, t, liq(_IH), liq(_IS), liq(_ID), 0.0, "two_phase")),
+            _new(State, (p, t, vap(_IH), vap(_IS), vap(_ID), 1.0, "two_phase")))
         return pair
 
     def _remember_side(self, found: State) -> None:
@@ -822,8 +820,9 @@ class PropertyModel:
                 saturated: State | None) -> State | None:
         """The single-phase state at ``pressure`` [Pa] whose property ``key`` (the library's
         ``iT``, ``iHmass`` or ``iSmass``) is ``target``, from the library tables' start
-        (:mod:`heatlift.starts`) and one Newton step on the full equation of state
-        (:func:`heatlift.flash.refine`): one evaluation in all.
+        (:mod:`heatlift.starts`) and Newton steps on the full equation of state
+        (:func:`heatlift.flash.refine`): one evaluation near cycle states, two or three where
+        the tables are coarser (some liquids, carbon dioxide near its critical point).
 
         None where the fluid has no tables, the tables have no answer, the step from their
         start is not short, or the point is not the state asked for: off the phase's side of
