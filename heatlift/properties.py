@@ -68,6 +68,14 @@ class State(NamedTuple):
     phase: str
 
 
+class _Side(NamedTuple):
+    """What tells a single-phase state's side of saturation: a saturated phase's temperature
+    [K] and density [kg/m^3] at a pressure (a :class:`State` has both too)."""
+
+    temperature: float
+    density: float
+
+
 class _PerThread(threading.local):
     """A model's per-thread objects: the library state and the remembered saturation answers
     (set up afresh in each thread on its first use)."""
@@ -80,6 +88,8 @@ class _PerThread(threading.local):
         self.second: CP.AbstractState | None = None
         self.components: list[CP.AbstractState] | None = None
         self.phased: dict[Any, CP.AbstractState] = {}  # phase imposed for good, by flag
+        # pressure [Pa] -> (bubble, dew) sides of a pure fluid whose h and s were not asked for
+        self.light: dict[float, tuple[_Side, _Side]] = {}
 
 
 @dataclass(frozen=True)
@@ -282,6 +292,44 @@ class PropertyModel:
             state = plain
         return self._snapshot(state, quality, "two_phase")
 
+    def pressure_at_saturation(self, temperature: float, quality: float,
+                               field: str | None = None) -> float:
+        """The bubble (``quality`` 0) or dew (1) pressure [Pa] at ``temperature`` [K], for a
+        caller that needs no more of the saturated states than their temperatures and
+        densities (:meth:`saturation_sides`).
+
+        A pure fluid: the library's saturation flash (its superancillaries: about half a
+        microsecond) without evaluating the coexisting phases' h and s (two evaluations of
+        the equation of state), remembered as the pressure's sides; the full states follow
+        from :meth:`saturation` when a state asks for them. Other refrigerants: the full
+        :meth:`saturated_at_temperature`.
+        """
+        if not self._one_temperature:
+            return self.saturated_at_temperature(temperature, quality, field).pressure
+        self.check_saturation_temperature(temperature, field)
+        state = self._flashed(_QT, quality, temperature)
+        p, t = state.p(), state.T()
+        light = self._local.light
+        if len(light) >= _REMEMBERED:
+            light.clear()
+        light[p] = (_new(_Side, (t, state.saturated_liquid_keyed_output(_ID))),
+                    _new(_Side, (t, state.saturated_vapor_keyed_output(_ID))))
+        return p
+
+    def saturation_sides(self, pressure: float) -> tuple[State | _Side, State | _Side]:
+        """(bubble, dew) temperatures and densities at ``pressure`` [Pa]: the remembered
+        states, else the remembered sides of :meth:`pressure_at_saturation`, else the states
+        of :meth:`saturation`."""
+        found = self._local.saturation.get(pressure)
+        if found is not None and found[0] is not None and found[1] is not None:
+            return found  # type: ignore[return-value]
+        return self._local.light.get(pressure) or self.saturation(pressure)
+
+    def saturation_temperatures(self, pressure: float) -> tuple[float, float]:
+        """(T_bubble, T_dew) [K] at ``pressure`` [Pa] (:meth:`saturation_sides`)."""
+        bubble, dew = self.saturation_sides(pressure)
+        return bubble.temperature, dew.temperature
+
     def _flashed(self, pair: Any, a: float, b: float) -> CP.AbstractState:
         """The library's flash of a pure fluid's thread state (no phase imposed, no envelope:
         :meth:`_update` without its blend and phase handling)."""
@@ -330,6 +378,11 @@ class PropertyModel:
         found = self._local.saturation.get(pressure)
         if found is not None and found[0] is not None and found[1] is not None:
             return found  # type: ignore[return-value]
+        sides = self._local.light.get(pressure)
+        if sides is not None:
+            # the flash that gave the sides (pressure_at_saturation), now with h and s: the
+            # very states saturated_at_temperature gives, to the last bit
+            return self._coexisting(self._flashed(_QT, 1.0, sides[1].temperature))
         return self.saturated_at_pressure(pressure, 0.0), self.saturated_at_pressure(pressure, 1.0)
 
     def saturated_at_pressure(self, pressure: float, quality: float) -> State:
@@ -345,6 +398,8 @@ class PropertyModel:
             pair = self._local.saturation.get(pressure)
             if pair is not None and pair[side] is not None:
                 return pair[side]  # type: ignore[return-value]
+            if pressure in self._local.light:
+                return self.saturation(pressure)[side]
         self.check_saturation_pressure(pressure)
         table = self._table()
         if table is not None and table.covers(pressure) and quality in (0.0, 1.0):
@@ -413,14 +468,15 @@ class PropertyModel:
             self.check_equation_range(pressure, temperature)
         if pressure >= self.critical_pressure or temperature >= self.critical_temperature:
             return self._single_phase_pt(pressure, temperature, "supercritical")
-        # (saturation checks the saturation range of the pressure)
-        bubble, dew = self.saturation(pressure)
-        if temperature > dew.temperature:
-            return self._tabled(pressure, temperature, _IT, "superheated_vapor", dew) or \
+        # (saturation checks the saturation range of the pressure; the sides need no h or s)
+        sides = self.saturation_sides(pressure)
+        if temperature > sides[1].temperature:
+            return self._tabled(pressure, temperature, _IT, "superheated_vapor", sides[1]) or \
                 self._single_phase_pt(pressure, temperature, "superheated_vapor")
-        if temperature < bubble.temperature:
-            return self._tabled(pressure, temperature, _IT, "subcooled_liquid", bubble) or \
+        if temperature < sides[0].temperature:
+            return self._tabled(pressure, temperature, _IT, "subcooled_liquid", sides[0]) or \
                 self._single_phase_pt(pressure, temperature, "subcooled_liquid")
+        bubble, dew = self.saturation(pressure)
         if dew.temperature - bubble.temperature < 1e-9:
             raise InvalidInput(
                 f"{{t}} is the saturation temperature of {self.name} at {{p}}: temperature and "
@@ -614,6 +670,16 @@ class PropertyModel:
             return self._tabled(pressure, target, key, "supercritical", None) or \
                 self._spanned_solve(pressure, target, which, "supercritical", None,
                                     "supercritical", "supercritical", near)
+        if pressure not in self._local.saturation:
+            sides = self._local.light.get(pressure)
+            if sides is not None:
+                # only the sides are known (a condensing pressure): the vapour first, which a
+                # compression's ends are. A refined point hotter than the dew point at the
+                # pressure is superheated vapour (h and s rise with T along an isobar), the
+                # same state the full decision below would give; else that decision follows
+                found = self._tabled(pressure, target, key, "superheated_vapor", sides[1])
+                if found is not None:
+                    return found
         # (saturation checks the saturation range of the pressure)
         bubble, dew = self.saturation(pressure)
         if target > (dew.enthalpy if enthalpy else dew.entropy):
@@ -817,7 +883,7 @@ class PropertyModel:
         return self._single_phase_state(_point(self._update(pair, a, b)), pressure, phase)
 
     def _tabled(self, pressure: float, target: float, key: Any, phase: str,
-                saturated: State | None) -> State | None:
+                saturated: State | _Side | None) -> State | None:
         """The single-phase state at ``pressure`` [Pa] whose property ``key`` (the library's
         ``iT``, ``iHmass`` or ``iSmass``) is ``target``, from the library tables' start
         (:mod:`heatlift.starts`) and Newton steps on the full equation of state

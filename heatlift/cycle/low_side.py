@@ -52,7 +52,7 @@ def high_side(m: PropertyModel, spec: CycleSpec, p_low: float) -> HighSide:
     if spec.condensing is None:
         raise InvalidInput("give condensing (a temperature or a pressure)", field="condensing")
     drops = spec.pressure_drops
-    p_in = proc.saturation_pressure(m, spec.condensing, "condensing")
+    p_in = proc.saturation_pressure(m, spec.condensing, "condensing", pressure_only=True)
     if p_low >= p_in:
         raise InvalidInput(
             "the evaporating pressure {low} is not below the condensing pressure {high}: "

@@ -16,8 +16,14 @@ _new = tuple.__new__  # a named tuple from the tuple of its fields, without its 
 SATURATED = 1e-6
 
 
-def saturation_pressure(m: PropertyModel, spec: SaturationSpec, field: str) -> float:
+def saturation_pressure(m: PropertyModel, spec: SaturationSpec, field: str,
+                        pressure_only: bool = False) -> float:
     """Absolute pressure [Pa] of a saturation condition on its ``basis``.
+
+    ``pressure_only``: the circuit needs no more of the saturated states there than their
+    temperatures and densities (a condensing pressure: its states are single-phase), so a
+    pure fluid's saturated h and s are left for a state that asks
+    (:meth:`~heatlift.properties.PropertyModel.pressure_at_saturation`).
 
     ``dew``: p = p_dew(T); ``bubble``: p = p_bubble(T); ``mean``: the p at which
     (T_bubble(p) + T_dew(p)) / 2 = T, found by secant steps between the bubble and dew pressures.
@@ -36,10 +42,11 @@ def saturation_pressure(m: PropertyModel, spec: SaturationSpec, field: str) -> f
             {"t": SIValue(t, "temperature"), "tc": SIValue(m.critical_temperature, "temperature")},
             field=f"{field}.temperature",
         )
-    if spec.basis == "dew":
-        return m.saturated_at_temperature(t, 1.0, f"{field}.temperature").pressure
-    if spec.basis == "bubble":
-        return m.saturated_at_temperature(t, 0.0, f"{field}.temperature").pressure
+    if spec.basis in ("dew", "bubble"):
+        quality = 1.0 if spec.basis == "dew" else 0.0
+        if pressure_only:
+            return m.pressure_at_saturation(t, quality, f"{field}.temperature")
+        return m.saturated_at_temperature(t, quality, f"{field}.temperature").pressure
     p_dew = m.saturated_at_temperature(t, 1.0, f"{field}.temperature").pressure
     p_bubble = m.saturated_at_temperature(t, 0.0).pressure
     if abs(p_bubble - p_dew) < 1e-9 * p_dew:
@@ -63,8 +70,8 @@ def saturation_pressure(m: PropertyModel, spec: SaturationSpec, field: str) -> f
 
 def mean_saturation_temperature(m: PropertyModel, pressure: float) -> float:
     """(T_bubble + T_dew) / 2 at ``pressure`` [K]."""
-    bubble, dew = m.saturation(pressure)
-    return 0.5 * (bubble.temperature + dew.temperature)
+    t_bubble, t_dew = m.saturation_temperatures(pressure)
+    return 0.5 * (t_bubble + t_dew)
 
 
 def drop_in_pressure(
@@ -124,18 +131,16 @@ def compress(
 
 def superheated(m: PropertyModel, pressure: float, superheat: float) -> State:
     """Vapour at ``pressure`` [Pa], ``superheat`` [K] above its dew point (0: saturated)."""
-    dew = m.saturated_at_pressure(pressure, 1.0)
     if superheat < SATURATED:
-        return dew
-    return m.at_pressure_temperature(pressure, dew.temperature + superheat)
+        return m.saturated_at_pressure(pressure, 1.0)
+    return m.at_pressure_temperature(pressure, m.saturation_temperatures(pressure)[1] + superheat)
 
 
 def subcooled(m: PropertyModel, pressure: float, subcooling: float) -> State:
     """Liquid at ``pressure`` [Pa], ``subcooling`` [K] below its bubble point (0: saturated)."""
-    bubble = m.saturated_at_pressure(pressure, 0.0)
     if subcooling < SATURATED:
-        return bubble
-    return m.at_pressure_temperature(pressure, bubble.temperature - subcooling)
+        return m.saturated_at_pressure(pressure, 0.0)
+    return m.at_pressure_temperature(pressure, m.saturation_temperatures(pressure)[0] - subcooling)
 
 
 def cooled_liquid(m: PropertyModel, liquid: State, cooling: float) -> State:

@@ -57,10 +57,12 @@ def engine_cycle(name: str, inputs: list[Conditions]) -> Callable[[Conditions], 
     plain sequences get their inputs ready-made), with the thread's remembered saturation
     answers forgotten before each solve (Newton starts depend on the inputs alone)."""
     specs = {id(c): engine_spec(name, c) for c in inputs}  # (by identity: a cheap look-up)
-    forget = model(name)._local.saturation.clear  # this thread's; emptied, never replaced
+    local = model(name)._local  # this thread's remembered saturation: emptied, never replaced
+    forget, forget_sides = local.saturation.clear, local.light.clear
 
     def run(c: Conditions) -> object:
         forget()
+        forget_sides()
         return cycle.solve(specs[id(c)])
     return run
 

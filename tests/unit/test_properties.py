@@ -269,3 +269,34 @@ def test_blend_temperature_and_quality_keep_quality_a_mass_fraction():
     at_p = m.at_pressure_quality(at_t.pressure, 0.3)
     assert at_p.temperature == pytest.approx(270.0, abs=1e-6)
     assert at_p.enthalpy == pytest.approx(at_t.enthalpy, rel=1e-9)
+
+
+@pytest.mark.parametrize("name", ["R134a", "R744"])
+def test_a_pressure_known_only_by_its_sides_gives_the_states_of_the_full_saturation(name):
+    # pressure_at_saturation leaves the saturated h and s out (a condensing pressure): every
+    # kind of state there must be the one the model gives once the full saturation is known,
+    # to the last bit, including those that are not vapour (the vapour is tried first)
+    from heatlift.properties import PropertyModel
+
+    light, full = PropertyModel(lookup(name)), PropertyModel(lookup(name))
+    t_sat = 288.15 if name == "R744" else 313.15
+    p = light.pressure_at_saturation(t_sat, 1.0)
+    assert p in light._local.light and p not in light._local.saturation
+    bubble, dew = full.saturation(full.saturated_at_temperature(t_sat, 1.0).pressure)
+    assert bubble.pressure == p
+    assert light.saturation_temperatures(p) == (bubble.temperature, dew.temperature)
+    vapour = full.at_pressure_temperature(p, t_sat + 25.0)
+    assert light.at_pressure_temperature(p, t_sat + 25.0) == vapour
+    assert light.at_pressure_temperature(p, t_sat - 4.0) == full.at_pressure_temperature(
+        p, t_sat - 4.0)
+    cases = [("entropy", vapour.entropy), ("enthalpy", vapour.enthalpy),
+             ("enthalpy", 0.5 * (bubble.enthalpy + dew.enthalpy)),  # two-phase
+             ("entropy", bubble.entropy - 20.0), ("enthalpy", bubble.enthalpy - 5e3)]  # liquid
+    saturated = PropertyModel(lookup(name))
+    saturated.pressure_at_saturation(t_sat, 1.0)
+    assert saturated.saturated_at_pressure(p, 0.0) == bubble  # (a subcooling of 0)
+    for which, value in cases:
+        fresh = PropertyModel(lookup(name))
+        fresh.pressure_at_saturation(t_sat, 1.0)
+        method = "at_pressure_entropy" if which == "entropy" else "at_pressure_enthalpy"
+        assert getattr(fresh, method)(p, value) == getattr(full, method)(p, value), (which, value)
