@@ -309,21 +309,19 @@ class PropertyModel:
         self.check_saturation_temperature(temperature, field)
         state = self._flashed(_QT, quality, temperature)
         p, t = state.p(), state.T()
-        light = self._local.light
-        if len(light) >= _REMEMBERED:
-            light.clear()
-        light[p] = (_new(_Side, (t, state.saturated_liquid_keyed_output(_ID))),
-                    _new(_Side, (t, state.saturated_vapor_keyed_output(_ID))))
+        _bounded(self._local.light)[p] = (
+            _new(_Side, (t, state.saturated_liquid_keyed_output(_ID))),
+            _new(_Side, (t, state.saturated_vapor_keyed_output(_ID))))
         return p
 
     def saturation_sides(self, pressure: float) -> tuple[State | _Side, State | _Side]:
         """(bubble, dew) temperatures and densities at ``pressure`` [Pa]: the remembered
         states, else the remembered sides of :meth:`pressure_at_saturation`, else the states
         of :meth:`saturation`."""
-        found = self._local.saturation.get(pressure)
-        if found is not None and found[0] is not None and found[1] is not None:
-            return found  # type: ignore[return-value]
-        return self._local.light.get(pressure) or self.saturation(pressure)
+        sides = self._local.light.get(pressure)
+        if sides is not None and pressure not in self._local.saturation:
+            return sides
+        return self.saturation(pressure)
 
     def saturation_temperatures(self, pressure: float) -> tuple[float, float]:
         """(T_bubble, T_dew) [K] at ``pressure`` [Pa] (:meth:`saturation_sides`)."""
@@ -345,10 +343,7 @@ class PropertyModel:
     def _saturation_cache(self) -> dict[float, tuple[State | None, State | None]]:
         """The thread's remembered saturation answers, emptied when it holds _REMEMBERED
         pressures."""
-        cache = self._local.saturation
-        if len(cache) >= _REMEMBERED:
-            cache.clear()
-        return cache
+        return _bounded(self._local.saturation)
 
     def _remember_pair(self, bubble: State, dew: State) -> tuple[State, State]:
         """Remember both saturated states at their pressure (the thread's last few hundred
@@ -902,7 +897,7 @@ class PropertyModel:
         if starts is None:
             return None
         flag = self._PHASE_FLAGS[phase]
-        table = starts.phased.get(flag) or starts.state_for(flag)  # (Starts.at, inline)
+        table = starts.phased.get(flag) or starts.state_for(flag)
         if table is None:
             return None
         try:
@@ -1298,6 +1293,14 @@ def _component_viscosity(
 
 # the library's (pressure, value) input pairs, for :meth:`PropertyModel._tabled`
 _TABLE_PAIRS: dict[Any, Any] = {CP.iT: CP.PT_INPUTS, CP.iSmass: CP.PSmass_INPUTS}
+
+
+def _bounded(cache: dict[float, Any]) -> dict[float, Any]:
+    """A thread's remembered saturation answers by pressure, emptied when it holds
+    _REMEMBERED pressures (a long-lived worker sees ever new pressures)."""
+    if len(cache) >= _REMEMBERED:
+        cache.clear()
+    return cache
 
 
 def _enthalpy_of(state: State) -> float:

@@ -175,7 +175,8 @@ class Starts(threading.local):
 
     def state_for(self, phase: Any) -> CP.AbstractState | None:
         """This thread's table state with ``phase`` imposed (opened on first use; the hot
-        path reads :attr:`phased` first); None where there are no tables."""
+        path, PropertyModel._tabled, reads :attr:`phased` first); None where there are no
+        tables. Its ``update`` with a library input pair gives the start (T, rho)."""
         state = self.phased.get(phase)
         if state is None and self.state is not None:
             state = self._open()
@@ -183,15 +184,3 @@ class Starts(threading.local):
                 state.specify_phase(phase)
                 self.phased[phase] = state
         return state
-
-    def at(self, pair: Any, a: float, b: float, phase: Any) -> tuple[float, float] | None:
-        """The tables' (T, rho) for the library's input ``pair`` (``a``, ``b`` in its order)
-        with ``phase`` imposed; None where there are no tables or they have no answer."""
-        state = self.state_for(phase)
-        if state is None:
-            return None
-        try:
-            state.update(pair, a, b)
-            return state.T(), state.rhomass()
-        except ValueError:
-            return None
