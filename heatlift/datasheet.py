@@ -27,7 +27,7 @@ check's; a row whose inputs cannot be computed fails with an ``input`` check.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable, Iterable, Sequence
+from collections.abc import Callable, Iterable, Iterator, Sequence
 from dataclasses import dataclass, field
 
 from heatlift.compressor import (
@@ -320,15 +320,24 @@ def input_failure(number: int, line: int | None, model_name: str | None,
     return RowReport(number, line, model_name, refrigerant, "fail", (check,))
 
 
+def reports(rows: Iterable[DatasheetRow | RowReport], tolerances: Tolerances
+            ) -> Iterator[RowReport]:
+    """Each row's report, in order, as it is checked (rows already reported, e.g. unreadable
+    ones, pass through); ``tolerances`` already checked (:meth:`Tolerances.checked`)."""
+    for i, row in enumerate(rows, start=1):
+        yield row if isinstance(row, RowReport) else check_row(row, i, tolerances)
+
+
+def summarise(verdicts: Sequence[str]) -> Summary:
+    """The counts of each verdict and the worst of them."""
+    counts = {v: verdicts.count(v) for v in VERDICTS}
+    return Summary(len(verdicts), counts["pass"], counts["warn"], counts["fail"],
+                   _worst(verdicts))
+
+
 def validate(rows: Sequence[DatasheetRow | RowReport],
              tolerances: Tolerances | None = None) -> Validation:
     """Check every row (rows already reported, e.g. unreadable ones, pass through)."""
     tol = (tolerances or Tolerances()).checked()
-    reports = tuple(
-        row if isinstance(row, RowReport) else check_row(row, i, tol)
-        for i, row in enumerate(rows, start=1)
-    )
-    counts = {v: sum(1 for r in reports if r.verdict == v) for v in VERDICTS}
-    summary = Summary(len(reports), counts["pass"], counts["warn"], counts["fail"],
-                      _worst(r.verdict for r in reports))
-    return Validation(reports, summary, tol)
+    checked = tuple(reports(rows, tol))
+    return Validation(checked, summarise([r.verdict for r in checked]), tol)

@@ -109,6 +109,32 @@ def test_example_csv_gives_the_expected_verdicts(http):
     assert rows[0]["line"] == 4  # two comment lines, then the header
 
 
+def test_a_report_of_several_parts_is_the_rows_reports_in_order(http):
+    """JSON reports are written PART_ROWS rows at a time: 25 example rows repeated past three
+    parts give each row the report of its original, numbered in order, and the summary
+    counts every part's rows."""
+    from api.routes.datasheets import PART_ROWS
+
+    lines = [line for line in EXAMPLE.read_text("utf-8").splitlines()
+             if not line.startswith("#")]
+    header, data = lines[0], lines[1:]
+    count = 2 * PART_ROWS + 37
+    r = post_csv(http, "\n".join([header] + [data[k % len(data)] for k in range(count)]))
+    assert r.status_code == 200, r.text
+    out = r.json()
+    alone = post_csv(http, EXAMPLE.read_text("utf-8")).json()["rows"]
+    assert [row["row"] for row in out["rows"]] == list(range(1, count + 1))
+    for k, row in enumerate(out["rows"]):
+        original = alone[k % len(data)]
+        assert {**row, "row": 0, "line": 0} == {**original, "row": 0, "line": 0}, k
+    verdicts = [row["verdict"] for row in out["rows"]]
+    assert out["summary"] == {"rows": count, "pass": verdicts.count("pass"),
+                              "warn": verdicts.count("warn"), "fail": verdicts.count("fail"),
+                              "verdict": "fail" if "fail" in verdicts else "warn"}
+    assert list(out) == ["summary", "tolerances", "rows", "meta"]
+    assert out["tolerances"]["capacity_warn"] == 0.02
+
+
 def test_csv_out_has_units_in_the_header(http):
     r = post_csv(http, EXAMPLE.read_text("utf-8"), format="csv")
     assert r.status_code == 200
